@@ -1,0 +1,54 @@
+// Every setting comes from the environment so production needs nothing but variables.
+export interface AppConfig {
+  env: string;
+  port: number;
+  db: { host: string; port: number; name: string; user: string; password: string };
+  jwt: { secret: string; accessTtlSeconds: number; refreshTtlSeconds: number };
+  loginRateLimit: { limit: number; ttlMs: number };
+  clientDist: string | null;
+  seedsDir: string | null;
+  uploadDir: string;
+  publicUrl: string;
+  logLevel: string;
+  mail: { host: string; port: number; user?: string; password?: string; from: string; secure: boolean };
+}
+
+const num = (v: string | undefined, d: number) => (v === undefined || v === '' ? d : Number(v));
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
+  const nodeEnv = env.NODE_ENV ?? 'development';
+  const secret = env.JWT_SECRET ?? (nodeEnv === 'production' ? '' : 'local-development-secret-change-me');
+  if (!secret) throw new Error('JWT_SECRET must be set in production');
+  return {
+    env: nodeEnv,
+    port: num(env.PORT, 3000),
+    db: {
+      host: env.DB_HOST ?? '127.0.0.1',
+      port: num(env.DB_PORT, 3307),
+      name: env.DB_NAME ?? 'ostium',
+      user: env.DB_USER ?? 'ostium',
+      password: env.DB_PASSWORD ?? 'ostium-local',
+    },
+    jwt: {
+      secret,
+      accessTtlSeconds: num(env.ACCESS_TOKEN_TTL_SECONDS, 15 * 60),
+      refreshTtlSeconds: num(env.REFRESH_TOKEN_TTL_SECONDS, 7 * 24 * 3600),
+    },
+    loginRateLimit: { limit: num(env.LOGIN_RATE_LIMIT, 10), ttlMs: num(env.LOGIN_RATE_WINDOW_MS, 60_000) },
+    clientDist: env.CLIENT_DIST ?? null,
+    seedsDir: env.SEEDS_DIR ?? null,
+    uploadDir: env.UPLOAD_DIR ?? '.data/uploads',
+    publicUrl: env.PUBLIC_URL ?? `http://127.0.0.1:${num(env.PORT, 3000)}`,
+    logLevel: env.LOG_LEVEL ?? (nodeEnv === 'test' ? 'warn' : 'info'),
+    mail: {
+      host: env.SMTP_HOST ?? '127.0.0.1',
+      port: num(env.SMTP_PORT, 1025),
+      user: env.SMTP_USER || undefined,
+      password: env.SMTP_PASSWORD || undefined,
+      from: env.MAIL_FROM ?? 'Ostium <desk@ostium.test>',
+      secure: env.SMTP_SECURE === 'true',
+    },
+  };
+}
+
+export const APP_CONFIG = Symbol('APP_CONFIG');

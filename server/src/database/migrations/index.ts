@@ -1,0 +1,11 @@
+import type { QueryInterface } from 'sequelize';
+import * as m0001 from './20261201-0001-foundation.js';
+
+export interface Migration {
+  name: string;
+  up: (q: QueryInterface) => Promise<void>;
+  down: (q: QueryInterface) => Promise<void>;
+}
+
+// In order; a new migration is a new timestamped file added at the end of this list.
+export const MIGRATIONS: Migration[] = [{ name: '20261201-0001-foundation', ...m0001 }];

@@ -1,0 +1,6 @@
+export * from './roles.types.js';
+export * from './auth.types.js';
+export * from './api.types.js';
+export * from './practice.types.js';
+export * from './teeth.util.js';
+export * from './phone.util.js';
