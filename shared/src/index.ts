@@ -4,3 +4,4 @@ export * from './api.types.js';
 export * from './practice.types.js';
 export * from './teeth.util.js';
 export * from './phone.util.js';
+export * from './estimates.types.js';

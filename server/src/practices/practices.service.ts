@@ -59,7 +59,7 @@ export class PracticesService {
     const rows = await this.locations.findAll({
       where: { practiceId },
       include: [Chair, Microscope],
-      order: [['name', 'ASC'], [Chair, 'name', 'ASC'], [Microscope, 'name', 'ASC']],
+      order: [['name', 'ASC'], ['chairs', 'name', 'ASC'], ['microscopes', 'name', 'ASC']],
     });
     return rows.map(mapLocation);
   }
