@@ -13,6 +13,7 @@ import { RolesGuard } from './common/guards/roles.guard.js';
 import { AppConfigModule } from './config/config.module.js';
 import { loadConfig, type AppConfig } from './config/configuration.js';
 import { sequelizeOptions } from './database/sequelize-options.js';
+import { EstimatesModule } from './estimates/estimates.module.js';
 import { HealthModule } from './health/health.module.js';
 import { PracticesModule } from './practices/practices.module.js';
 import { SeedsModule } from './seeds/seeds.module.js';
@@ -52,6 +53,7 @@ export class AppModule implements NestModule {
         AuthModule,
         HealthModule,
         PracticesModule,
+        EstimatesModule,
         SeedsModule,
       ],
       providers: [

@@ -5,3 +5,4 @@ export * from './practice.types.js';
 export * from './teeth.util.js';
 export * from './phone.util.js';
 export * from './estimates.types.js';
+export * from './referrals.types.js';

@@ -4,7 +4,7 @@ import type { AuthUser, LoginResponse } from '@ostium/shared';
 import { APP_CONFIG, type AppConfig } from '../config/configuration.js';
 import type { User } from '../users/models/user.model.js';
 import { UsersService } from '../users/users.service.js';
-import type { RequestUser } from '../common/context/request-context.js';
+import { currentContext, type RequestUser } from '../common/context/request-context.js';
 
 export interface AccessPayload {
   sub: number;
@@ -29,6 +29,9 @@ export class AuthService {
     const user = await this.users.findByEmail(email);
     const ok = user ? await this.users.verifyPassword(user, password) : false;
     if (!user || !ok || !user.active) throw new UnauthorizedException(BAD_LOGIN);
+    // The sign-in itself is credited to the user in the audit log.
+    const ctx = currentContext();
+    if (ctx) ctx.user = { ...toAuthUser(user), practiceId: user.practiceId };
     await this.users.recordSignIn(user);
     return this.issue(user);
   }

@@ -17,6 +17,10 @@ export class ApiExceptionFilter implements ExceptionFilter {
   }
 
   private toBody(exception: unknown): ApiErrorBody {
+    if (exception instanceof HttpException && exception.cause instanceof SyntaxError && exception.getStatus() === 400) {
+      // The body parser's own text would echo part of the body back.
+      return { statusCode: 400, message: 'The request body is not valid JSON' };
+    }
     if (exception instanceof HttpException) {
       const status = exception.getStatus();
       const r = exception.getResponse();
@@ -39,9 +43,6 @@ export class ApiExceptionFilter implements ExceptionFilter {
     }
     if (exception instanceof BaseError && /ECONNREFUSED|connect|pool/i.test(exception.message)) {
       return { statusCode: HttpStatus.SERVICE_UNAVAILABLE, message: 'The database is not reachable right now; try again shortly' };
-    }
-    if (exception instanceof SyntaxError && 'body' in (exception as object)) {
-      return { statusCode: HttpStatus.BAD_REQUEST, message: 'The request body is not valid JSON' };
     }
     const status = (exception as { status?: number; statusCode?: number })?.status ?? (exception as { statusCode?: number })?.statusCode;
     if (typeof status === 'number' && status >= 400 && status < 500) {
