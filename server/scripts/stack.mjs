@@ -116,7 +116,7 @@ function startMail(env) {
     'mail inbox',
     process.execPath,
     [
-      join(root, 'node_modules', 'maildev', 'bin', 'maildev'),
+      join(root, 'node_modules', 'maildev', 'dist', 'bin', 'maildev.js'),
       '--ip', '127.0.0.1', '--web-ip', '127.0.0.1',
       '--smtp', env.SMTP_PORT, '--web', env.MAIL_WEB_PORT,
       '--mail-directory', join(dataRoot, `mail-${env.SMTP_PORT}`),
@@ -140,7 +140,21 @@ async function start() {
   migrateAndSeed(env);
   startMail(env);
   spawnChild('server', process.execPath, ['server/dist/main.js'], env, { critical: true });
-  log(`Ostium: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}) — Ctrl-C stops everything`);
+  await waitForHealth(env.PORT);
+  log(`Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}) — Ctrl-C stops everything`);
+}
+
+async function waitForHealth(port) {
+  for (let i = 0; i < 300; i++) {
+    try {
+      const res = await fetch(`http://127.0.0.1:${port}/api/health`);
+      if (res.ok) return;
+    } catch {
+      /* not listening yet */
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  log('the server did not answer its health check within 60 s');
 }
 
 async function dev() {
