@@ -141,7 +141,7 @@ async function start() {
   startMail(env);
   spawnChild('server', process.execPath, ['server/dist/main.js'], env, { critical: true });
   await waitForHealth(env.PORT);
-  log(`Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}) — Ctrl-C stops everything`);
+  log(`Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}/index.html) — Ctrl-C stops everything`);
 }
 
 async function waitForHealth(port) {
