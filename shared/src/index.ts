@@ -6,3 +6,4 @@ export * from './teeth.util.js';
 export * from './phone.util.js';
 export * from './estimates.types.js';
 export * from './referrals.types.js';
+export * from './case-sheets.types.js';
