@@ -110,7 +110,21 @@ async function startDb(env, { wildcard = false } = {}) {
   return paths;
 }
 
-function startMail(env) {
+async function waitForUrl(url, what, tries = 150) {
+  for (let i = 0; i < tries; i++) {
+    try {
+      const res = await fetch(url);
+      if (res.status < 500) return true;
+    } catch {
+      /* not listening yet */
+    }
+    await new Promise((r) => setTimeout(r, 200));
+  }
+  log(`${what} did not answer at ${url}`);
+  return false;
+}
+
+async function startMail(env) {
   mkdirSync(join(dataRoot, `mail-${env.SMTP_PORT}`), { recursive: true });
   spawnChild(
     'mail inbox',
@@ -125,6 +139,7 @@ function startMail(env) {
     {},
     { stdio: 'ignore' },
   );
+  await waitForUrl(`http://127.0.0.1:${env.MAIL_WEB_PORT}/api/email`, 'the local mail inbox');
 }
 
 function migrateAndSeed(env) {
@@ -138,7 +153,7 @@ async function start() {
   await startDb(env);
   buildAll();
   migrateAndSeed(env);
-  startMail(env);
+  await startMail(env);
   spawnChild('server', process.execPath, ['server/dist/main.js'], env, { critical: true });
   await waitForHealth(env.PORT);
   log(`Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}/index.html) — Ctrl-C stops everything`);
@@ -164,7 +179,7 @@ async function dev() {
   build('shared', ['shared/src', 'shared/package.json']);
   build('server', ['server/src', 'shared/src', 'server/package.json']);
   migrateAndSeed(env);
-  startMail(env);
+  await startMail(env);
   spawnChild('shared compiler', 'npx', ['tsc', '-p', 'shared/tsconfig.json', '--watch', '--preserveWatchOutput'], env);
   spawnChild('server compiler', 'npx', ['tsc', '-p', 'server/tsconfig.build.json', '--watch', '--preserveWatchOutput'], env);
   spawnChild('server', process.execPath, ['--watch', 'server/dist/main.js'], env, { critical: true });
@@ -187,7 +202,7 @@ async function test() {
   const paths = await startDb(env, { wildcard: true });
   dropDatabases(paths, 'ostium_t');
   buildAll();
-  startMail(env);
+  await startMail(env);
   const results = join(dataRoot, 'test-results.json');
   mkdirSync(dataRoot, { recursive: true });
   const args = [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, ...process.argv.slice(3)];

@@ -13,9 +13,15 @@ import { RolesGuard } from './common/guards/roles.guard.js';
 import { AppConfigModule } from './config/config.module.js';
 import { loadConfig, type AppConfig } from './config/configuration.js';
 import { sequelizeOptions } from './database/sequelize-options.js';
+import { CaseSheetsModule } from './case-sheets/case-sheets.module.js';
 import { EstimatesModule } from './estimates/estimates.module.js';
 import { HealthModule } from './health/health.module.js';
 import { PracticesModule } from './practices/practices.module.js';
+import { AttachmentsModule } from './attachments/attachments.module.js';
+import { MailModule } from './mail/mail.module.js';
+import { PatientsModule } from './patients/patients.module.js';
+import { ReferralsModule } from './referrals/referrals.module.js';
+import { ReferringDentistsModule } from './referring-dentists/referring-dentists.module.js';
 import { SeedsModule } from './seeds/seeds.module.js';
 import { UsersModule } from './users/users.module.js';
 
@@ -53,7 +59,13 @@ export class AppModule implements NestModule {
         AuthModule,
         HealthModule,
         PracticesModule,
+        MailModule,
+        PatientsModule,
+        ReferringDentistsModule,
+        AttachmentsModule,
+        ReferralsModule,
         EstimatesModule,
+        CaseSheetsModule,
         SeedsModule,
       ],
       providers: [

@@ -22,6 +22,8 @@ export const ACCESS = {
   cases: ['endodontist', 'frontdesk', 'manager', 'admin'],
   casesAdjust: ['endodontist'],
   estimates: ['endodontist', 'frontdesk', 'manager', 'admin'],
+  estimateAccuracy: ['manager', 'admin', 'endodontist'],
+  visitHistoryImport: ['admin', 'manager'],
   schedule: ['frontdesk', 'endodontist', 'manager', 'admin'],
   chairside: ['assistant', 'endodontist', 'frontdesk', 'admin'],
   replies: ['frontdesk', 'admin'],

@@ -1,7 +1,7 @@
 import { BadRequestException, Body, Controller, Get, HttpCode, Post, Put, Query, UploadedFile, UseInterceptors } from '@nestjs/common';
 import { FileInterceptor } from '@nestjs/platform-express';
 import { ApiBearerAuth, ApiBody, ApiConsumes, ApiOperation, ApiTags } from '@nestjs/swagger';
-import { Allow, CurrentUser, Roles } from '../common/decorators/auth.decorators.js';
+import { Allow, CurrentUser } from '../common/decorators/auth.decorators.js';
 import type { RequestUser } from '../common/context/request-context.js';
 import { EstimateRequestDto } from './dto/estimate-request.dto.js';
 import { EstimatesService } from './estimates.service.js';
@@ -28,7 +28,7 @@ export class EstimatesController {
   }
 
   @Get('estimates/accuracy')
-  @Roles('manager', 'admin', 'endodontist')
+  @Allow('estimateAccuracy')
   @ApiOperation({ summary: 'Estimated vs actual per cell (procedure × tooth group × level), before and after calibration' })
   accuracy(@CurrentUser() user: RequestUser) {
     return this.estimates.accuracy(user.practiceId);
@@ -50,7 +50,7 @@ export class EstimatesController {
   }
 
   @Post('visit-history/import')
-  @Roles('admin', 'manager')
+  @Allow('visitHistoryImport')
   @ApiOperation({ summary: 'Import past visits (CSV: date, tooth, procedure, canals, level, operator_email, actual_minutes)' })
   @ApiConsumes('multipart/form-data')
   @UseInterceptors(FileInterceptor('file', { limits: { fileSize: 5 * 1024 * 1024 } }))

@@ -1,5 +1,6 @@
 import type { QueryInterface } from 'sequelize';
 import * as m0001 from './20261201-0001-foundation.js';
+import * as m0002 from './20261201-0002-referrals.js';
 import * as m0003 from './20261201-0003-estimates.js';
 
 export interface Migration {
@@ -11,5 +12,6 @@ export interface Migration {
 // In order; a new migration is a new timestamped file added at the end of this list.
 export const MIGRATIONS: Migration[] = [
   { name: '20261201-0001-foundation', ...m0001 },
+  { name: '20261201-0002-referrals', ...m0002 },
   { name: '20261201-0003-estimates', ...m0003 },
 ];
