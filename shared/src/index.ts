@@ -7,3 +7,4 @@ export * from './phone.util.js';
 export * from './estimates.types.js';
 export * from './referrals.types.js';
 export * from './case-sheets.types.js';
+export * from './scheduling.types.js';
