@@ -1,5 +1,6 @@
 import { can, type Capability, type Role } from '@ostium/shared';
-import { IconHistory, IconSun, IconUsers, type Icon } from '@tabler/icons-react';
+import { caseSheetNavItems } from '../features/case-sheet/nav';
+import { IconAddressBook, IconFilePlus, IconHistory, IconListDetails, IconSun, IconUserHeart, IconUsers, type Icon } from '@tabler/icons-react';
 
 export interface NavItem {
   to: string;
@@ -12,8 +13,14 @@ export interface NavItem {
 
 export const NAV_ITEMS: NavItem[] = [
   { to: '/', label: 'Today', icon: IconSun, section: 'work' },
+  { to: '/intake', label: 'Intake', icon: IconFilePlus, capability: 'referralsWrite', section: 'work' },
+  { to: '/referrals', label: 'Referral queue', icon: IconListDetails, capability: 'referralsRead', section: 'work' },
+  { to: '/referring-dentists', label: 'Referring dentists', icon: IconAddressBook, capability: 'referralsRead', section: 'work' },
+  { to: '/patients', label: 'Patients', icon: IconUserHeart, capability: 'referralsRead', section: 'work' },
+  ...caseSheetNavItems.filter((i) => i.section === 'work'),
   { to: '/admin/users', label: 'Users and roles', icon: IconUsers, capability: 'users', section: 'admin' },
   { to: '/admin/audit', label: 'Audit log', icon: IconHistory, capability: 'audit', section: 'admin' },
+  ...caseSheetNavItems.filter((i) => i.section === 'admin'),
 ];
 
 export function navFor(role: Role): NavItem[] {

@@ -7,6 +7,8 @@ export class ApiError extends Error {
     readonly status: number,
     message: string,
     readonly errors: { field: string; message: string }[] = [],
+    /** The parsed error body, for answers that carry more than a message (e.g. a 409's `conflicts`). */
+    readonly body: unknown = undefined,
   ) {
     super(message);
   }
@@ -61,7 +63,7 @@ async function toError(res: Response): Promise<ApiError> {
   } catch {
     /* not JSON: fall through to the status text */
   }
-  return new ApiError(res.status, body.message ?? (res.statusText || `Request failed (${res.status})`), body.errors ?? []);
+  return new ApiError(res.status, body.message ?? (res.statusText || `Request failed (${res.status})`), body.errors ?? [], body);
 }
 
 function xhr<T>(method: string, target: string, body: FormData, headers: Record<string, string>, onProgress: (f: number) => void, signal?: AbortSignal): Promise<{ status: number; json: () => Promise<T>; ok: boolean; statusText: string }> {
@@ -118,7 +120,7 @@ async function toErrorFromXhr(res: { status: number; statusText: string; json: (
   } catch {
     /* not JSON */
   }
-  return new ApiError(res.status, body?.message ?? `Request failed (${res.status})`, body?.errors ?? []);
+  return new ApiError(res.status, body?.message ?? `Request failed (${res.status})`, body?.errors ?? [], body);
 }
 
 /** Downloads a protected file (attachments, exports) with the token, as a blob URL. */
