@@ -1,5 +1,5 @@
 // Writes demo/visit-history.csv: invented past visits of the demo practice for the CSV import.
-// Deterministic (seeded), so the file is the same every time. Hidden truths the import should learn:
+// 240 treatments, one row per visit. Deterministic (seeded), so the file is the same every time. Hidden truths the import should learn:
 // endo2 works about 30 % slower than the table, endo3 about 10 % faster, high-difficulty molars
 // run about 20 % over, with lognormal noise.
 import { writeFileSync } from 'node:fs';
@@ -30,12 +30,18 @@ for (let i = 0; i < 240; i++) {
   const level = pick(['low', 'low', 'moderate', 'moderate', 'high']);
   const procedure = rnd() < 0.8 ? 'initial' : 'consult';
   const op = pick(operators);
-  const table = procedure === 'consult' ? 30 : Math.ceil((tooth.base * tier[level]) / 5) * 5;
+  const table = procedure === 'consult' ? 30 : tooth.base * tier[level];
+  // A treatment longer than the 120-minute longest visit was done in several visits: one row each.
+  const visits = Math.ceil(table / 120);
+  const perVisit = Math.ceil(table / visits / 5) * 5;
   const cellBias = procedure === 'initial' && tooth.group === 'molar' && level === 'high' ? 1.2 : 1;
-  const actual = Math.max(10, Math.round(table * op.pace * cellBias * Math.exp(0.12 * normal())));
-  const date = new Date(start + Math.floor(rnd() * 150) * 86_400_000).toISOString().slice(0, 10);
-  lines.push([date, tooth.t, procedure, tooth.canals, level, op.email, actual].join(','));
+  const day = Math.floor(rnd() * 140);
+  for (let v = 0; v < visits; v++) {
+    const actual = Math.max(10, Math.round(perVisit * op.pace * cellBias * Math.exp(0.12 * normal())));
+    const date = new Date(start + (day + v * 10) * 86_400_000).toISOString().slice(0, 10);
+    lines.push([date, tooth.t, procedure, tooth.canals, level, op.email, actual].join(','));
+  }
 }
 const out = join(dirname(fileURLToPath(import.meta.url)), 'demo', 'visit-history.csv');
 writeFileSync(out, lines.join('\n') + '\n');
-console.log(`wrote ${lines.length - 1} visits to ${out}`);
+console.log(`wrote ${lines.length - 1} visits (240 treatments) to ${out}`);
