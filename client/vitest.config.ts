@@ -9,5 +9,6 @@ export default defineConfig({
     include: ['src/**/*.spec.tsx', 'src/**/*.spec.ts'],
     setupFiles: ['./src/test/setup.ts'],
     css: false,
+    testTimeout: 20_000,
   },
 });

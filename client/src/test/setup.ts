@@ -1,6 +1,9 @@
 import '@testing-library/jest-dom/vitest';
-import { cleanup } from '@testing-library/react';
+import { cleanup, configure } from '@testing-library/react';
 import { afterEach } from 'vitest';
+
+// CI runs every project at once on two cores: give findBy/waitFor room before calling it a failure.
+configure({ asyncUtilTimeout: 5000 });
 
 afterEach(() => cleanup());
 

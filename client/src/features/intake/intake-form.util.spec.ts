@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { buildReferralRequest, formPathFor, initialIntakeValues, validateIntake } from './intake-form.util';
+import { buildReferralRequest, formPathFor, initialIntakeValues, todayIn, validateIntake } from './intake-form.util';
 
 describe('formPathFor', () => {
   it('puts every per-tooth error on the tooth picker and keeps nested patient fields', () => {
@@ -50,5 +50,14 @@ describe('validateIntake', () => {
     const n = { ...initialIntakeValues('2026-02-02'), newPatient: true, locationId: '1', referringDentistId: 3, teeth: ['11'] };
     n.patient = { ...n.patient, smsConsent: true, email: 'not-an-address' };
     expect(Object.keys(validateIntake(n)).sort()).toEqual(['patient.dateOfBirth', 'patient.email', 'patient.firstName', 'patient.lastName', 'patient.phone']);
+  });
+});
+
+describe('todayIn', () => {
+  // IANA time zone database via luxon: 00:30 UTC on 2 Dec is still 1 Dec (19:30) in New York.
+  it('gives the date at the location, not in the browser', () => {
+    const now = new Date('2026-12-02T00:30:00Z');
+    expect(todayIn('America/New_York', now)).toBe('2026-12-01');
+    expect(todayIn('Europe/Berlin', now)).toBe('2026-12-02');
   });
 });

@@ -1,3 +1,4 @@
+import { DateTime } from 'luxon';
 import { formatTooth, type CreateReferralRequest, type LetterChannel, type PreferredChannel, type Procedure, type ToothNotation, type Urgency } from '@ostium/shared';
 
 /** The Intake form's values; the shape mirrors CreateReferralRequest so server field names map one to one. */
@@ -31,6 +32,12 @@ export interface IntakeValues {
   teeth: string[];
   reason: string;
   notes: string;
+}
+
+/** Today's date where the referral is received (the desk's browser may sit in another zone, e.g. UTC). */
+export function todayIn(timeZone: string | undefined, now: Date = new Date()): string {
+  const d = DateTime.fromJSDate(now).setZone(timeZone ?? 'local');
+  return (d.isValid ? d : DateTime.fromJSDate(now)).toISODate()!;
 }
 
 export function initialIntakeValues(today: string): IntakeValues {

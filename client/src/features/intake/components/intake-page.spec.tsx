@@ -1,11 +1,11 @@
 import type { CreateReferralRequest, LocationSummary, Patient, PracticeSummary, ReferringDentist } from '@ostium/shared';
 import { fireEvent, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import dayjs from 'dayjs';
 import { afterEach, beforeEach, describe, expect, it } from 'vitest';
 import { sessionStore } from '../../../lib/session';
 import { mockFetch, renderRoutes, type MockCall } from '../../../test/render';
 import { IntakePage } from './intake-page';
+import { todayIn } from '../intake-form.util';
 
 const practice: PracticeSummary = {
   id: 1,
@@ -124,7 +124,7 @@ describe('IntakePage', { timeout: 20_000 }, () => {
     await waitFor(() => expect(router.state.location.pathname).toBe('/referrals/41'));
     expect(posts(calls)).toEqual([
       {
-        receivedOn: dayjs().format('YYYY-MM-DD'),
+        receivedOn: todayIn('America/New_York'),
         locationId: 1,
         urgency: 'urgent',
         procedure: 'retreatment',

@@ -4,7 +4,6 @@ import { useHotkeys } from '@mantine/hooks';
 import { notifications } from '@mantine/notifications';
 import { PROCEDURES, URGENCIES, type Patient, type ReferringDentist } from '@ostium/shared';
 import { useQueryClient } from '@tanstack/react-query';
-import dayjs from 'dayjs';
 import { useCallback, useEffect, useRef, useState, type ReactNode, type Ref } from 'react';
 import { useNavigate } from 'react-router-dom';
 import { PageHeader } from '../../../components/page-header';
@@ -15,7 +14,7 @@ import { referringDentistKeys } from '../../directory/api/referring-dentists';
 import { useLocations, usePractice } from '../../practice/api/practice';
 import { useCreateReferral } from '../../referrals/api/referrals';
 import { PROCEDURE_LABELS, URGENCY_LABELS } from '../../referrals/referral-labels.util';
-import { buildReferralRequest, formPathFor, initialIntakeValues, validateIntake, type IntakeValues } from '../intake-form.util';
+import { buildReferralRequest, formPathFor, initialIntakeValues, todayIn, validateIntake, type IntakeValues } from '../intake-form.util';
 import { useAttachmentUploads } from '../use-attachment-uploads';
 import { AttachmentsField } from './attachments-field';
 import { PatientSection, type DuplicateState } from './patient-section';
@@ -58,10 +57,10 @@ export function IntakePage() {
       </Center>
     );
   }
-  return <IntakeForm notation={practice.data.settings.toothNotation} locations={locations.data.map((l) => ({ value: String(l.id), label: l.name }))} />;
+  return <IntakeForm notation={practice.data.settings.toothNotation} locations={locations.data.map((l) => ({ value: String(l.id), label: l.name, timeZone: l.timeZone }))} />;
 }
 
-function IntakeForm({ notation, locations }: { notation: 'fdi' | 'universal'; locations: { value: string; label: string }[] }) {
+function IntakeForm({ notation, locations }: { notation: 'fdi' | 'universal'; locations: { value: string; label: string; timeZone: string }[] }) {
   const navigate = useNavigate();
   const qc = useQueryClient();
   const create = useCreateReferral();
@@ -73,7 +72,7 @@ function IntakeForm({ notation, locations }: { notation: 'fdi' | 'universal'; lo
   const patientBox = useRef<HTMLElement>(null);
   const dentistBox = useRef<HTMLElement>(null);
   const form = useForm<IntakeValues>({
-    initialValues: { ...initialIntakeValues(dayjs().format('YYYY-MM-DD')), locationId: locations.length === 1 ? locations[0]!.value : null },
+    initialValues: { ...initialIntakeValues(todayIn(locations[0]?.timeZone)), locationId: locations.length === 1 ? locations[0]!.value : null },
     validate: validateIntake,
   });
 
