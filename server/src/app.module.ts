@@ -22,6 +22,7 @@ import { MailModule } from './mail/mail.module.js';
 import { PatientsModule } from './patients/patients.module.js';
 import { ReferralsModule } from './referrals/referrals.module.js';
 import { ReferringDentistsModule } from './referring-dentists/referring-dentists.module.js';
+import { SchedulingModule } from './scheduling/scheduling.module.js';
 import { SeedsModule } from './seeds/seeds.module.js';
 import { UsersModule } from './users/users.module.js';
 
@@ -66,6 +67,7 @@ export class AppModule implements NestModule {
         ReferralsModule,
         EstimatesModule,
         CaseSheetsModule,
+        SchedulingModule,
         SeedsModule,
       ],
       providers: [

@@ -9,7 +9,7 @@ import { concretePath, controllerRoutes, expressRoutes, routeKey, type RouteInfo
 import { createTestApp, type TestApp } from './helpers/test-app.js';
 
 // The only routes anyone may call without signing in; a new public route has to be added here on purpose.
-const PUBLIC_ROUTES = ['GET /api/health', 'POST /api/auth/login', 'POST /api/auth/refresh', 'POST /api/auth/logout'];
+const PUBLIC_ROUTES = ['GET /api/health', 'POST /api/auth/login', 'POST /api/auth/refresh', 'POST /api/auth/logout', 'GET /api/feeds/:file'];
 
 type Agent = Awaited<ReturnType<TestApp['as']>>;
 

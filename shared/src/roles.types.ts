@@ -26,6 +26,8 @@ export const ACCESS = {
   visitHistoryImport: ['admin', 'manager'],
   schedule: ['frontdesk', 'endodontist', 'manager', 'admin'],
   chairside: ['assistant', 'endodontist', 'frontdesk', 'admin'],
+  // Operators manage their own calendar feed; an administrator anyone's.
+  feeds: ['endodontist', 'admin'],
   replies: ['frontdesk', 'admin'],
   reports: ['manager', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;

@@ -1,4 +1,5 @@
 import type { Level, Procedure, TrayItem } from './estimates.types.js';
+import type { LocationSummary, OpeningHours } from './practice.types.js';
 
 export const APPOINTMENT_STATES = ['booked', 'confirmed', 'arrived', 'seated', 'dismissed', 'cancelled', 'no_show'] as const;
 export type AppointmentState = (typeof APPOINTMENT_STATES)[number];
@@ -15,6 +16,32 @@ export interface ClosureInput {
 export interface Closure extends ClosureInput {
   id: number;
   locationId: number;
+}
+/** POST /api/locations, PATCH /api/locations/:id (admin). */
+export interface LocationInput {
+  name: string;
+  address?: string | null;
+  phone?: string | null;
+  timeZone: string; // IANA name
+  openingHours: OpeningHours;
+}
+/** A location as the scheduling screens read it: chairs, microscopes and closures. */
+export interface LocationResource extends LocationSummary {
+  closures: Closure[];
+}
+export interface ChairInput {
+  name: string;
+  fixedMicroscopeId?: number | null;
+  active?: boolean;
+}
+export interface MicroscopeInput {
+  name: string;
+  mobile: boolean;
+  active?: boolean;
+}
+/** POST /api/operators/:id/feed-token: the private feed address (shown once; a new call replaces it). */
+export interface FeedTokenResponse {
+  url: string;
 }
 /** An operator's recurring working block at one location (RFC 5545 RRULE, e.g. FREQ=WEEKLY;BYDAY=MO,WE). */
 export interface WorkingRuleInput {
@@ -55,6 +82,11 @@ export interface OperatorSchedule {
   workingRules: WorkingRule[];
   timeOff: TimeOff[];
   holds: Hold[];
+}
+/** GET /api/scheduling/resources: everything the booking screens need to draw the practice. */
+export interface SchedulingResourcesView {
+  locations: LocationResource[];
+  operators: OperatorSchedule[];
 }
 
 // ---------- time finder ----------
@@ -160,6 +192,8 @@ export interface AppointmentQuery {
   locationId?: number;
   chairId?: number;
   operatorId?: number;
+  /** Also cancelled and no-show appointments (default: only those holding their time). */
+  includeCancelled?: boolean;
 }
 
 // ---------- chairside list ----------
@@ -192,4 +226,6 @@ export interface WaitlistEntry extends WaitlistEntryInput {
   minutesPerVisit: number[];
   needsMicroscope: boolean;
   createdAt: string;
+  /** Only in GET /api/waitlist/fits: where the first visit would go in the freed time. */
+  fit?: ProposedVisitSlot;
 }

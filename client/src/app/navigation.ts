@@ -1,5 +1,6 @@
 import { can, type Capability, type Role } from '@ostium/shared';
 import { caseSheetNavItems } from '../features/case-sheet/nav';
+import { chairBoardNavItems } from '../features/chair-board/nav';
 import { IconAddressBook, IconFilePlus, IconHistory, IconListDetails, IconSun, IconUserHeart, IconUsers, type Icon } from '@tabler/icons-react';
 
 export interface NavItem {
@@ -17,9 +18,11 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/referrals', label: 'Referral queue', icon: IconListDetails, capability: 'referralsRead', section: 'work' },
   { to: '/referring-dentists', label: 'Referring dentists', icon: IconAddressBook, capability: 'referralsRead', section: 'work' },
   { to: '/patients', label: 'Patients', icon: IconUserHeart, capability: 'referralsRead', section: 'work' },
+  ...chairBoardNavItems.filter((i) => i.section === 'work'),
   ...caseSheetNavItems.filter((i) => i.section === 'work'),
   { to: '/admin/users', label: 'Users and roles', icon: IconUsers, capability: 'users', section: 'admin' },
   { to: '/admin/audit', label: 'Audit log', icon: IconHistory, capability: 'audit', section: 'admin' },
+  ...chairBoardNavItems.filter((i) => i.section === 'admin'),
   ...caseSheetNavItems.filter((i) => i.section === 'admin'),
 ];
 

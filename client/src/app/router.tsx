@@ -10,6 +10,7 @@ import { ReferralPage } from '../features/referrals/components/referral-page';
 import { ReferralQueuePage } from '../features/referrals/components/referral-queue-page';
 import { UsersPage } from '../features/users/components/users-page';
 import { caseSheetRoutes } from '../features/case-sheet/routes';
+import { chairBoardRoutes } from '../features/chair-board/routes';
 import { Shell } from './shell';
 
 export const routes = [
@@ -31,6 +32,7 @@ export const routes = [
       { path: 'admin/users', element: <RequireAccess capability="users"><UsersPage /></RequireAccess> },
       { path: 'admin/audit', element: <RequireAccess capability="audit"><AuditPage /></RequireAccess> },
       ...caseSheetRoutes,
+      ...chairBoardRoutes,
       { path: '*', element: <Navigate to="/" replace /> },
     ],
   },

@@ -13,7 +13,7 @@ import {
   type ToothNotation,
 } from '@ostium/shared';
 import Papa from 'papaparse';
-import { fn, col } from 'sequelize';
+import { fn, col, type Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
 import { PracticesService } from '../practices/practices.service.js';
 import { UsersService } from '../users/users.service.js';
@@ -202,6 +202,39 @@ export class EstimatesService {
     const assessment = { archPosition: 'low', [LEVEL_PROBE]: level } as const;
     const r = estimate({ toothFdi, procedure, canals, assessment }, table);
     return Math.round(r.totalMinutes / r.visits.length);
+  }
+
+  /**
+   * One real visit measured at dismissal (dismissed − seated), logged with source 'visit' so the
+   * calibration learns from it; the yardstick is the current table's minutes, as for imported visits.
+   */
+  async recordVisit(
+    practiceId: number,
+    v: { appointmentId: number; visitDate: string; toothFdi: string; procedure: Procedure; canals: number; level: Level; operatorId: number | null; actualMinutes: number },
+    transaction?: Transaction,
+  ): Promise<{ id: number; estimatedMinutes: number; actualMinutes: number }> {
+    const table = await this.currentTable(practiceId);
+    const estimatedMinutes = this.tableMinutesAt(table, v.toothFdi, v.procedure, v.canals, v.level);
+    const row = await this.visits.create(
+      {
+        practiceId,
+        visitDate: v.visitDate,
+        toothFdi: v.toothFdi,
+        procedure: v.procedure,
+        toothGroup: toothGroup(parseFdi(v.toothFdi, 'tooth')),
+        canals: v.canals,
+        level: v.level,
+        operatorId: v.operatorId,
+        estimatedMinutes,
+        actualMinutes: Math.max(1, Math.round(v.actualMinutes)),
+        tableVersion: table.version,
+        source: 'visit',
+        appointmentId: v.appointmentId,
+      },
+      { transaction },
+    );
+    this.models.delete(practiceId);
+    return { id: row.id, estimatedMinutes, actualMinutes: row.actualMinutes };
   }
 
   /**

@@ -9,6 +9,7 @@ import { STATUS_PATH } from '../referrals/referral-status.util.js';
 import { parseReferralTeeth } from '../referrals/referral-teeth.util.js';
 import { ReferralsService } from '../referrals/referrals.service.js';
 import { ReferringDentistsService } from '../referring-dentists/referring-dentists.service.js';
+import { DemoScheduleService } from '../scheduling/demo-schedule.service.js';
 import { UsersService } from '../users/users.service.js';
 
 interface DemoPractice {
@@ -58,6 +59,7 @@ export class SeedsService {
     private readonly patients: PatientsService,
     private readonly dentists: ReferringDentistsService,
     private readonly referrals: ReferralsService,
+    private readonly schedule: DemoScheduleService,
   ) {}
 
   async loadDemo({ ifEmpty = false, dir }: { ifEmpty?: boolean; dir?: string } = {}): Promise<string> {
@@ -87,7 +89,8 @@ export class SeedsService {
       created++;
     }
     const intake = await this.loadReferrals(practice.id, seedsDir, locations);
-    return `practice "${practice.name}", ${demo.locations.length} locations, ${chairs} chairs, ${created} new users${intake}`;
+    const schedule = await this.schedule.load(practice.id);
+    return `practice "${practice.name}", ${demo.locations.length} locations, ${chairs} chairs, ${created} new users${schedule}${intake}`;
   }
 
   /**

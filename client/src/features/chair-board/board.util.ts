@@ -188,7 +188,7 @@ export function changeRequest(a: Appointment, next: { start?: string; end?: stri
 
 const RESOURCE_WORD: Record<BookingConflict['resource'], string> = { chair: 'Chair', operator: 'Endodontist', microscope: 'Microscope' };
 
-/** "Chair 2 is taken 10:00–11:00 by Sam Example (visit #9)". */
+/** "Chair 2 is taken 10:00–11:00 by Sam Example (visit #9)", in the location's time. */
 export function describeConflict(c: BookingConflict, lookup: BoardLookup): string {
   const name =
     c.resource === 'chair'
@@ -197,7 +197,9 @@ export function describeConflict(c: BookingConflict, lookup: BoardLookup): strin
         ? lookup.microscopes.get(c.resourceId)?.name
         : lookup.operators.get(c.resourceId);
   const who = lookup.appointments.get(c.appointmentId)?.patient.name;
-  const what = name ? `${RESOURCE_WORD[c.resource]} ${name}` : `${RESOURCE_WORD[c.resource]} #${c.resourceId}`;
+  const word = RESOURCE_WORD[c.resource];
+  // "Chair 2", not "Chair Chair 2"; a person's name stands alone.
+  const what = !name ? `${word} #${c.resourceId}` : c.resource === 'operator' || name.toLowerCase().includes(word.toLowerCase()) ? name : `${word} ${name}`;
   return `${what} is taken ${localTime(c.start, lookup.timeZone)}–${localTime(c.end, lookup.timeZone)} by ${who ? `${who} (visit #${c.appointmentId})` : `visit #${c.appointmentId}`}`;
 }
 

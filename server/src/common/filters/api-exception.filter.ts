@@ -25,8 +25,10 @@ export class ApiExceptionFilter implements ExceptionFilter {
       const status = exception.getStatus();
       const r = exception.getResponse();
       if (typeof r === 'string') return { statusCode: status, message: r };
-      const o = r as { message?: unknown; errors?: ApiErrorBody['errors'] };
+      const o = r as { message?: unknown; errors?: ApiErrorBody['errors']; conflicts?: unknown };
       const message = Array.isArray(o.message) ? o.message.join('; ') : String(o.message ?? exception.message);
+      // A booking 409 names every colliding booking (BookingConflictBody).
+      if (status === HttpStatus.CONFLICT && Array.isArray(o.conflicts)) return { statusCode: status, message, conflicts: o.conflicts } as ApiErrorBody;
       return o.errors ? { statusCode: status, message, errors: o.errors } : { statusCode: status, message };
     }
     if (exception instanceof UniqueConstraintError) {

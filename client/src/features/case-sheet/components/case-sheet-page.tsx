@@ -17,6 +17,7 @@ import { draftErrors, draftFromCase, patchBody, previewRequest, PROCEDURE_LABELS
 import { AssessmentPanel } from './assessment-panel';
 import { EstimateCard } from './estimate-card';
 import { OverrideEditor } from './override-editor';
+import { FindTimesButton } from '../../time-finder/components/find-times-button';
 
 const procedureOptions = PROCEDURES.map((p) => ({ value: p, label: PROCEDURE_LABELS[p] }));
 const date = (iso: string) => new Date(iso.length === 10 ? `${iso}T00:00:00` : iso).toLocaleDateString([], { dateStyle: 'medium' });
@@ -135,6 +136,7 @@ function CaseSheetEditor({ sheet, factors }: { sheet: CaseSheet; factors: Factor
           <Button leftSection={<IconDeviceFloppy size={16} />} onClick={onSave} loading={save.isPending} disabled={!valid}>
             Save and mark planned
           </Button>
+          {sheet.estimate && !dirty && ['planned', 'triaged', 'received'].includes(sheet.status) && <FindTimesButton caseId={sheet.id} variant="light" />}
         </Group>
       </Group>
 
