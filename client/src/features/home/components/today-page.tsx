@@ -5,6 +5,7 @@ import { DateTime } from 'luxon';
 import { PageHeader } from '../../../components/page-header';
 import { QueryState } from '../../../components/query-state';
 import { useSession } from '../../auth/use-session';
+import { CalendarFeedCard } from '../../calendar-feed/components/calendar-feed-card';
 import { useLocations, usePractice } from '../../practice/api/practice';
 
 const WEEKDAYS = ['', 'Mon', 'Tue', 'Wed', 'Thu', 'Fri', 'Sat', 'Sun'];
@@ -56,6 +57,11 @@ export function TodayPage() {
           </SimpleGrid>
         )}
       </QueryState>
+      {session.user.role === 'endodontist' && (
+        <SimpleGrid cols={{ base: 1, md: 2 }} mt="md">
+          <CalendarFeedCard operatorId={session.user.id} />
+        </SimpleGrid>
+      )}
     </>
   );
 }
