@@ -5,6 +5,7 @@ export * from './practice.types.js';
 export * from './teeth.util.js';
 export * from './phone.util.js';
 export * from './estimates.types.js';
+export * from './default-estimate-table.util.js';
 export * from './referrals.types.js';
 export * from './case-sheets.types.js';
 export * from './scheduling.types.js';

@@ -13,7 +13,7 @@ import {
   learnCalibration,
   quantile,
 } from './calibration.util.js';
-import { DEFAULT_ESTIMATE_TABLE as T } from './default-table.util.js';
+import { DEFAULT_ESTIMATE_TABLE as T } from '@ostium/shared';
 import { estimate } from './estimate.util.js';
 import { EstimateInputError } from './input-error.util.js';
 import { mulberry32, normal, pick } from './seeded-random.util.js';

@@ -7,7 +7,7 @@ import {
   type CompletedVisit,
   type EstimateTable,
 } from '@ostium/shared';
-import { DEFAULT_ESTIMATE_TABLE } from './default-table.util.js';
+import { DEFAULT_ESTIMATE_TABLE } from '@ostium/shared';
 import type { Calibration, CalibrationCell } from './estimate.util.js';
 import { EstimateInputError } from './input-error.util.js';
 

@@ -11,7 +11,7 @@ import {
   type Level,
   type Procedure,
 } from '@ostium/shared';
-import { DEFAULT_ESTIMATE_TABLE as T } from './default-table.util.js';
+import { DEFAULT_ESTIMATE_TABLE as T } from '@ostium/shared';
 import { estimate, type EstimateInput } from './estimate.util.js';
 import { EstimateInputError } from './input-error.util.js';
 import { ALL_FDI_CODES } from './tooth-fdi.util.js';

@@ -13,7 +13,7 @@ import {
   type TrayTemplateItem,
 } from '@ostium/shared';
 import { isMaxillaryMolar, toothGroup, usualCanals } from './canals.util.js';
-import { DEFAULT_ESTIMATE_TABLE } from './default-table.util.js';
+import { DEFAULT_ESTIMATE_TABLE } from '@ostium/shared';
 import { combine } from './difficulty.util.js';
 import { checkAssessment, checkFacts, MAX_CANALS, resolveAssessment } from './factors.util.js';
 import { EstimateInputError } from './input-error.util.js';

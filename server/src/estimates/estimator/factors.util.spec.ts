@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { FACTOR_KEYS, type EstimateFacts } from '@ostium/shared';
-import { DEFAULT_ESTIMATE_TABLE as T } from './default-table.util.js';
+import { DEFAULT_ESTIMATE_TABLE as T } from '@ostium/shared';
 import {
   apicalOpeningLevel,
   asaClassLevel,

@@ -20,7 +20,7 @@ export {
   type ResolvedAssessment,
 } from './factors.util.js';
 export { combine, type Difficulty } from './difficulty.util.js';
-export { DEFAULT_ESTIMATE_TABLE } from './default-table.util.js';
+export { DEFAULT_ESTIMATE_TABLE } from '@ostium/shared';
 export {
   estimate,
   checkTable,

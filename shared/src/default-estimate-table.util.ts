@@ -1,4 +1,4 @@
-import type { EstimateTable } from '@ostium/shared';
+import type { EstimateTable } from './estimates.types.js';
 
 /**
  * Version 1 of the estimate table: every number is a practice-editable default from
