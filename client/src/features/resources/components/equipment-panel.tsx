@@ -1,9 +1,10 @@
 import { ActionIcon, Alert, Button, Group, SegmentedControl, Select, Stack, Table, Text, TextInput, Title } from '@mantine/core';
 import type { ChairSummary, LocationResource, MicroscopeSummary } from '@ostium/shared';
-import { IconDeviceFloppy, IconTrash } from '@tabler/icons-react';
+import { IconDeviceFloppy } from '@tabler/icons-react';
 import { useState } from 'react';
 import { useDeleteChair, useDeleteMicroscope, useSaveChair, useSaveMicroscope } from '../api/resources';
 import { errorOf } from '../resources.util';
+import { RemoveButton } from './remove-button';
 
 /** Chairs (each may have a microscope fixed to it) and microscopes (fixed to a chair or mobile within the location). */
 export function EquipmentPanel({ locations }: { locations: LocationResource[] }) {
@@ -81,9 +82,7 @@ function ChairRow({ chair, locationId, scopes }: { chair?: ChairSummary; locatio
             <IconDeviceFloppy size={16} />
           </ActionIcon>
           {chair && (
-            <ActionIcon variant="subtle" color="plum" aria-label={`Remove ${label}`} loading={remove.isPending} onClick={() => remove.mutate(chair.id)}>
-              <IconTrash size={16} />
-            </ActionIcon>
+            <RemoveButton label={`Remove ${label}`} onClick={() => remove.mutate(chair.id)} loading={remove.isPending} />
           )}
         </Group>
       </Table.Td>
@@ -162,9 +161,7 @@ function MicroscopeRow({ scope, locationId, chairName }: { scope?: MicroscopeSum
             <IconDeviceFloppy size={16} />
           </ActionIcon>
           {scope && (
-            <ActionIcon variant="subtle" color="plum" aria-label={`Remove ${label}`} loading={remove.isPending} onClick={() => remove.mutate(scope.id)}>
-              <IconTrash size={16} />
-            </ActionIcon>
+            <RemoveButton label={`Remove ${label}`} onClick={() => remove.mutate(scope.id)} loading={remove.isPending} />
           )}
         </Group>
       </Table.Td>

@@ -1,9 +1,9 @@
-import { ActionIcon, Alert, Button, Checkbox, Group, Select, Stack, Table, Text, TextInput, Title } from '@mantine/core';
+import { Alert, Button, Checkbox, Group, Select, Stack, Table, Text, TextInput, Title } from '@mantine/core';
 import type { LocationResource } from '@ostium/shared';
-import { IconTrash } from '@tabler/icons-react';
 import { useMemo, useState } from 'react';
 import { useAddClosure, useDeleteClosure, useSaveLocation } from '../api/resources';
 import { errorOf, hoursFromRows, hoursRows, timeZoneNames, WEEKDAY_LONG, type DayHours } from '../resources.util';
+import { RemoveButton } from './remove-button';
 
 /** Locations: name, time zone, weekly opening hours, and closures with their reasons. */
 export function LocationsPanel({ locations }: { locations: LocationResource[] }) {
@@ -130,9 +130,7 @@ function Closures({ location }: { location: LocationResource }) {
               <Table.Td w={120}>{c.date}</Table.Td>
               <Table.Td>{c.reason}</Table.Td>
               <Table.Td w={40}>
-                <ActionIcon variant="subtle" color="plum" aria-label={`Remove closure on ${c.date}`} onClick={() => remove.mutate(c.id)}>
-                  <IconTrash size={16} />
-                </ActionIcon>
+                <RemoveButton label={`Remove closure on ${c.date}`} onClick={() => remove.mutate(c.id)} />
               </Table.Td>
             </Table.Tr>
           ))}

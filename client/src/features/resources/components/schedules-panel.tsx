@@ -1,12 +1,13 @@
-import { ActionIcon, Button, Group, Select, Stack, Table, Text, TextInput, Title } from '@mantine/core';
+import { Button, Group, Select, Stack, Table, Text, TextInput, Title } from '@mantine/core';
 import type { Hold, LocationResource, OperatorSchedule, WorkingRule } from '@ostium/shared';
-import { IconDeviceFloppy, IconTrash } from '@tabler/icons-react';
+import { IconDeviceFloppy } from '@tabler/icons-react';
 import { useState } from 'react';
 import { useAddHold, useAddTimeOff, useDeleteHold, useDeleteTimeOff, useDeleteWorkingRule, useSaveWorkingRule } from '../api/resources';
 import { errorOf, instantFromLocal, localFromInstant } from '../resources.util';
 import { describeRule, weekdaysOf, withWeekdays, type RruleDay } from '../rrule.util';
 import { SaveError } from './equipment-panel';
 import { WeekdayPicker } from './weekday-picker';
+import { RemoveButton } from './remove-button';
 
 /** Each endodontist's working rules (weekly days, hours, lunch), time off and emergency holds. */
 export function SchedulesPanel({ locations, operators }: { locations: LocationResource[]; operators: OperatorSchedule[] }) {
@@ -92,9 +93,7 @@ export function WorkingRuleForm({ rule, operatorId, locations }: { rule?: Workin
           {rule ? 'Save' : 'Add rule'}
         </Button>
         {rule && (
-          <ActionIcon variant="subtle" color="plum" aria-label={`Remove ${name}`} onClick={() => remove.mutate(rule.id)} loading={remove.isPending}>
-            <IconTrash size={16} />
-          </ActionIcon>
+          <RemoveButton label={`Remove ${name}`} onClick={() => remove.mutate(rule.id)} loading={remove.isPending} />
         )}
         <Text fz="xs" c="dimmed" ff="monospace" aria-label="Rule as saved">
           {rrule}
@@ -132,9 +131,7 @@ function TimeOffList({ schedule, locations }: { schedule: OperatorSchedule; loca
               </Table.Td>
               <Table.Td>{t.reason ?? ''}</Table.Td>
               <Table.Td w={40}>
-                <ActionIcon variant="subtle" color="plum" aria-label="Remove time off" onClick={() => remove.mutate(t.id)}>
-                  <IconTrash size={16} />
-                </ActionIcon>
+                <RemoveButton label="Remove time off" onClick={() => remove.mutate(t.id)} />
               </Table.Td>
             </Table.Tr>
           ))}
@@ -203,9 +200,7 @@ function Holds({ schedule, locations }: { schedule: OperatorSchedule; locations:
               <Table.Td>{locName(h)}</Table.Td>
               <Table.Td>opens {h.opensEveningBeforeAt ?? '18:00'} the day before</Table.Td>
               <Table.Td w={40}>
-                <ActionIcon variant="subtle" color="plum" aria-label={`Remove hold ${describeRule(h.rrule)} ${h.start}`} onClick={() => remove.mutate(h.id)}>
-                  <IconTrash size={16} />
-                </ActionIcon>
+                <RemoveButton label={`Remove hold ${describeRule(h.rrule)} ${h.start}`} onClick={() => remove.mutate(h.id)} />
               </Table.Td>
             </Table.Tr>
           ))}
