@@ -1,7 +1,6 @@
-import { Anchor, Badge, Card, Group, Table, Text, TextInput } from '@mantine/core';
+import { Anchor, Badge, Card, Group, Table, Text } from '@mantine/core';
 import { useDebouncedValue } from '@mantine/hooks';
 import { can } from '@ostium/shared';
-import { IconSearch } from '@tabler/icons-react';
 import dayjs from 'dayjs';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
@@ -11,6 +10,7 @@ import { QueryState } from '../../../components/query-state';
 import { useSession } from '../../auth/use-session';
 import { usePatients } from '../api/patients';
 import { showPhone } from '../phone-display.util';
+import { SearchField } from '../../../components/search-field';
 
 // The server answers a search with at most 200 rows; past that, narrowing the search beats paging.
 const LIMIT = 200;
@@ -26,16 +26,7 @@ export function PatientsPage() {
     <>
       <PageHeader title="Patients" description="Everyone referred to the practice. Patients are added at Intake, with the referral that brings them." />
       <Group mb="md">
-        <TextInput
-          aria-label="Search patients"
-          placeholder="Search by name, phone or e-mail"
-          leftSection={<IconSearch size={14} />}
-          w={320}
-          value={search}
-          onChange={(e) => {
-            setSearch(e.currentTarget.value);
-          }}
-        />
+        <SearchField label="Search patients" placeholder="Search by name, phone or e-mail" value={search} onChange={setSearch} />
       </Group>
       <Card p={0}>
         <QueryState query={patients}>

@@ -1,8 +1,8 @@
-import { Alert, Anchor, Button, Card, Group, Modal, Select, Stack, Table, Text, TextInput } from '@mantine/core';
+import { Alert, Anchor, Button, Card, Group, Modal, Select, Stack, Table, Text } from '@mantine/core';
 import { useDebouncedValue } from '@mantine/hooks';
 import { notifications } from '@mantine/notifications';
 import { can, type ReferringDentist } from '@ostium/shared';
-import { IconArrowMerge, IconSearch } from '@tabler/icons-react';
+import { IconArrowMerge } from '@tabler/icons-react';
 import { useState } from 'react';
 import { Link } from 'react-router-dom';
 import { EmptyState } from '../../../components/empty-state';
@@ -11,6 +11,7 @@ import { QueryState } from '../../../components/query-state';
 import { useSession } from '../../auth/use-session';
 import { useMergeReferringDentists, useReferringDentists } from '../api/referring-dentists';
 import { showPhone } from '../phone-display.util';
+import { SearchField } from '../../../components/search-field';
 
 // The server answers a search with at most 200 rows; past that, narrowing the search beats paging.
 const LIMIT = 200;
@@ -31,16 +32,7 @@ export function ReferringDentistsPage() {
         description="The dentists who send patients, and how each wants letters. New ones are added at Intake; two records of the same dentist can be merged."
       />
       <Group mb="md">
-        <TextInput
-          aria-label="Search referring dentists"
-          placeholder="Search by name, practice or e-mail"
-          leftSection={<IconSearch size={14} />}
-          w={320}
-          value={search}
-          onChange={(e) => {
-            setSearch(e.currentTarget.value);
-          }}
-        />
+        <SearchField label="Search referring dentists" placeholder="Search by name, practice or e-mail" value={search} onChange={setSearch} />
       </Group>
       <Card p={0}>
         <QueryState query={dentists}>
