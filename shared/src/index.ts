@@ -9,3 +9,5 @@ export * from './default-estimate-table.util.js';
 export * from './referrals.types.js';
 export * from './case-sheets.types.js';
 export * from './scheduling.types.js';
+export * from './messaging.types.js';
+export * from './reports.types.js';

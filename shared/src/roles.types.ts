@@ -29,6 +29,10 @@ export const ACCESS = {
   // Operators manage their own calendar feed; an administrator anyone's.
   feeds: ['endodontist', 'admin'],
   replies: ['frontdesk', 'admin'],
+  // Reminder rules, templates, quiet hours and caps.
+  reminderSettings: ['admin', 'manager'],
+  // Writing the findings and sending the completion report to the referring dentist.
+  completionReport: ['endodontist'],
   reports: ['manager', 'admin'],
 } as const satisfies Record<string, readonly Role[]>;
 export type Capability = keyof typeof ACCESS;

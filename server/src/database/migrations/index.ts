@@ -3,6 +3,7 @@ import * as m0001 from './20261201-0001-foundation.js';
 import * as m0002 from './20261201-0002-referrals.js';
 import * as m0003 from './20261201-0003-estimates.js';
 import * as m0004 from './20261201-0004-scheduling.js';
+import * as m0005 from './20261202-0005-messaging.js';
 
 export interface Migration {
   name: string;
@@ -16,4 +17,5 @@ export const MIGRATIONS: Migration[] = [
   { name: '20261201-0002-referrals', ...m0002 },
   { name: '20261201-0003-estimates', ...m0003 },
   { name: '20261201-0004-scheduling', ...m0004 },
+  { name: '20261202-0005-messaging', ...m0005 },
 ];
