@@ -11,6 +11,24 @@ export interface AppConfig {
   publicUrl: string;
   logLevel: string;
   mail: { host: string; port: number; user?: string; password?: string; from: string; secure: boolean };
+  /** The text-messaging provider (the official twilio SDK); apiBase points it at the local fake in development and tests. */
+  sms: { accountSid: string; authToken: string; fromNumber: string; apiBase: string | null };
+  /** The outbox job: every process may run it; each message still goes once. */
+  messaging: {
+    jobEnabled: boolean;
+    intervalMs: number;
+    batchSize: number;
+    /** How long a claimed row belongs to its worker before another may reconcile it. */
+    claimSeconds: number;
+    maxAttempts: number;
+    backoffBaseMs: number;
+    backoffMaxMs: number;
+    /** Timeout of one provider or SMTP call. */
+    sendTimeoutMs: number;
+    workerId: string;
+    /** Signs the confirm links in messages. */
+    linkSecret: string;
+  };
 }
 
 const num = (v: string | undefined, d: number) => (v === undefined || v === '' ? d : Number(v));
@@ -47,6 +65,24 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       password: env.SMTP_PASSWORD || undefined,
       from: env.MAIL_FROM ?? 'Ostium <desk@ostium.test>',
       secure: env.SMTP_SECURE === 'true',
+    },
+    sms: {
+      accountSid: env.TWILIO_ACCOUNT_SID ?? 'AC00000000000000000000000000000000',
+      authToken: env.TWILIO_AUTH_TOKEN ?? (nodeEnv === 'production' ? '' : 'local-fake-auth-token'),
+      fromNumber: env.TWILIO_FROM_NUMBER ?? '+12025550100',
+      apiBase: env.TWILIO_API_BASE || null,
+    },
+    messaging: {
+      jobEnabled: env.MESSAGING_JOB !== 'off',
+      intervalMs: num(env.MESSAGING_INTERVAL_MS, 2_000),
+      batchSize: num(env.MESSAGING_BATCH_SIZE, 50),
+      claimSeconds: num(env.MESSAGING_CLAIM_SECONDS, 120),
+      maxAttempts: num(env.MESSAGING_MAX_ATTEMPTS, 10),
+      backoffBaseMs: num(env.MESSAGING_BACKOFF_BASE_MS, 30_000),
+      backoffMaxMs: num(env.MESSAGING_BACKOFF_MAX_MS, 30 * 60_000),
+      sendTimeoutMs: num(env.MESSAGING_SEND_TIMEOUT_MS, 15_000),
+      workerId: env.MESSAGING_WORKER_ID ?? `${process.pid}`,
+      linkSecret: env.LINK_SECRET ?? `${secret}:links`,
     },
   };
 }

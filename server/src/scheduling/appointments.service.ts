@@ -1,4 +1,5 @@
 import { BadRequestException, ConflictException, Injectable, NotFoundException } from '@nestjs/common';
+import { EventEmitter2 } from '@nestjs/event-emitter';
 import { InjectModel } from '@nestjs/sequelize';
 import type {
   Appointment,
@@ -18,6 +19,7 @@ import { EstimatesService } from '../estimates/estimates.service.js';
 import type { Actor } from '../referrals/case-record.types.js';
 import { isOpen, STATUS_PATH } from '../referrals/referral-status.util.js';
 import { ReferralsService } from '../referrals/referrals.service.js';
+import { APPOINTMENT_CHANGED, APPOINTMENTS_BOOKED, type AppointmentChangedEvent, type AppointmentsBookedEvent, type AppointmentSnapshot } from './appointment-events.js';
 import { canTransition, MOVABLE_STATES, noticeHours, RELEASED_STATES } from './appointment-state.util.js';
 import type { AppointmentQueryDto, BookAppointmentsDto, UpdateAppointmentDto } from './dto/appointments.dto.js';
 import { AppointmentRow } from './models/appointment.model.js';
@@ -145,6 +147,7 @@ export class AppointmentsService {
     @InjectModel(AppointmentRow) private readonly appointments: typeof AppointmentRow,
     private readonly referrals: ReferralsService,
     private readonly estimates: EstimatesService,
+    private readonly events: EventEmitter2,
   ) {}
 
   // ---------- reads ----------
@@ -356,6 +359,7 @@ export class AppointmentsService {
     const own = visits.flatMap(visitCells);
     if (duplicateCells(own).length) throw bad('visits', 'two visits of the series take the same chair, operator or microscope at the same time');
     const seriesId = randomUUID();
+    const firstBooking = STATUS_PATH.indexOf(c.referralStatus) >= 0 && STATUS_PATH.indexOf(c.referralStatus) < STATUS_PATH.indexOf('booked');
     try {
       await this.guarded(
         () => visits,
@@ -409,7 +413,19 @@ export class AppointmentsService {
       }
       throw e;
     }
-    return { replayed: false, body: { appointments: await this.series(practiceId, seriesId) } };
+    const appointments = await this.series(practiceId, seriesId);
+    const booked: AppointmentsBookedEvent = {
+      practiceId,
+      seriesId,
+      appointmentIds: appointments.map((a) => a.id),
+      caseId: c.id,
+      referralId: c.referralId,
+      firstBooking,
+      actorId: actor.id,
+      at: new Date(),
+    };
+    this.emit(APPOINTMENTS_BOOKED, booked);
+    return { replayed: false, body: { appointments } };
   }
 
   private async seriesOfKey(practiceId: number, key: string): Promise<string | null> {
@@ -468,6 +484,8 @@ export class AppointmentsService {
       const [checked] = await this.checkResources(practiceId, [next], [false]);
       next = { ...next, microscopeId: checked!.microscopeId, locationId: checked!.locationId };
     }
+    let previous: AppointmentSnapshot | null = null;
+    let saved: AppointmentRow | null = null;
     await this.guarded(
       () => [next],
       async (transaction) => {
@@ -477,6 +495,7 @@ export class AppointmentsService {
           throw new BookingConflictException(`The appointment was changed by someone else (version ${row.version}, you had ${dto.version}); reload it and try again`, []);
         }
         const now = new Date();
+        previous = snapshot(row);
         await this.releaseCells(row.id, transaction);
         if (!RELEASED_STATES.includes(target)) {
           const conflicts = await this.conflictsFor([next], transaction);
@@ -503,9 +522,33 @@ export class AppointmentsService {
         }
         await row.save({ transaction });
         if (dto.state === 'dismissed' && row.seatedAt) await this.recordDismissal(practiceId, row, transaction);
+        saved = row;
       },
     );
+    if (previous && saved) {
+      const row = saved as AppointmentRow;
+      const changed: AppointmentChangedEvent = {
+        practiceId,
+        appointmentId: row.id,
+        caseId: row.caseId,
+        referralId: row.referralId,
+        previous,
+        current: snapshot(row),
+        actorId: actor.id,
+        at: new Date(),
+      };
+      this.emit(APPOINTMENT_CHANGED, changed);
+    }
     return this.get(practiceId, id);
+  }
+
+  /** Listeners run after the commit; one that throws is logged by the emitter and never undoes the change. */
+  private emit(event: string, payload: AppointmentsBookedEvent | AppointmentChangedEvent) {
+    try {
+      this.events.emit(event, payload);
+    } catch {
+      // a listener's failure is its own (the periodic sweeps catch up); the booking stands
+    }
   }
 
   /** The measured visit (dismissed − seated) goes to the estimate learning. */
@@ -535,6 +578,18 @@ export class AppointmentsService {
       transaction,
     );
   }
+}
+
+function snapshot(row: AppointmentRow): AppointmentSnapshot {
+  return {
+    start: new Date(row.start),
+    end: new Date(row.end),
+    state: row.state,
+    chairId: row.chairId,
+    operatorId: row.operatorId,
+    microscopeId: row.microscopeId,
+    locationId: row.locationId,
+  };
 }
 
 /** An Idempotency-Key that another request already used (found on its unique key). */
