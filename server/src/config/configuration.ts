@@ -69,7 +69,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     sms: {
       accountSid: env.TWILIO_ACCOUNT_SID ?? 'AC00000000000000000000000000000000',
       authToken: env.TWILIO_AUTH_TOKEN ?? (nodeEnv === 'production' ? '' : 'local-fake-auth-token'),
-      fromNumber: env.TWILIO_FROM_NUMBER ?? '+12025550100',
+      fromNumber: env.TWILIO_FROM_NUMBER ?? '+12025550199',
       apiBase: env.TWILIO_API_BASE || null,
     },
     messaging: {
