@@ -69,8 +69,11 @@ function build(workspace, inputs) {
   writeFileSync(stamp, new Date().toISOString());
 }
 
+const buildSmsFake = () => build('fakes/sms', ['fakes/sms/src', 'fakes/sms/package.json', 'fakes/sms/tsconfig.json']);
+
 function buildAll() {
   build('shared', ['shared/src', 'shared/package.json']);
+  buildSmsFake();
   build('server', ['server/src', 'shared/src', 'server/package.json']);
   build('client', ['client/src', 'client/index.html', 'client/vite.config.ts', 'shared/src', 'client/package.json']);
 }
@@ -93,7 +96,10 @@ let db;
 async function shutdown(code = 0) {
   if (stopping) return;
   stopping = true;
+  // Children first (the server finishes its requests and jobs while the database is still up), then MariaDB.
+  const exited = children.filter((c) => c.exitCode === null && c.signalCode === null).map((c) => new Promise((r) => c.once('exit', r)));
   for (const c of children) c.kill('SIGTERM');
+  await Promise.race([Promise.all(exited), new Promise((r) => setTimeout(r, 5_000))]);
   if (db) await stopMariadb(db);
   process.exit(code);
 }
@@ -142,6 +148,18 @@ async function startMail(env) {
   await waitForUrl(`http://127.0.0.1:${env.MAIL_WEB_PORT}/api/email`, 'the local mail inbox');
 }
 
+// The local stand-in for the text-messaging provider (fakes/sms): the app's SDK talks to it through
+// TWILIO_API_BASE, and it posts status callbacks and played replies back to the app.
+async function startSmsFake(env) {
+  spawnChild('SMS stand-in', process.execPath, [join(root, 'fakes', 'sms', 'dist', 'main.js')], {
+    SMS_FAKE_PORT: env.SMS_FAKE_PORT,
+    TWILIO_ACCOUNT_SID: env.TWILIO_ACCOUNT_SID,
+    TWILIO_AUTH_TOKEN: env.TWILIO_AUTH_TOKEN,
+    SMS_FAKE_INBOUND_URL: env.SMS_FAKE_INBOUND_URL,
+  });
+  await waitForUrl(`http://127.0.0.1:${env.SMS_FAKE_PORT}/fake/info`, 'the SMS stand-in');
+}
+
 function migrateAndSeed(env) {
   run(process.execPath, ['server/dist/cli.js', 'migrate'], { env: { ...process.env, ...env } });
   run(process.execPath, ['server/dist/cli.js', 'seed', '--if-empty'], { env: { ...process.env, ...env } });
@@ -154,9 +172,13 @@ async function start() {
   buildAll();
   migrateAndSeed(env);
   await startMail(env);
+  await startSmsFake(env);
   spawnChild('server', process.execPath, ['server/dist/main.js'], env, { critical: true });
   await waitForHealth(env.PORT);
-  log(`Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}/index.html) — Ctrl-C stops everything`);
+  log(
+    `Ostium is ready: http://127.0.0.1:${env.PORT}  (mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}/index.html, ` +
+      `SMS stand-in http://127.0.0.1:${env.SMS_FAKE_PORT}/) — Ctrl-C stops everything`,
+  );
 }
 
 async function waitForHealth(port) {
@@ -177,16 +199,18 @@ async function dev() {
   const env = devEnv();
   await startDb(env);
   build('shared', ['shared/src', 'shared/package.json']);
+  buildSmsFake();
   build('server', ['server/src', 'shared/src', 'server/package.json']);
   migrateAndSeed(env);
   await startMail(env);
+  await startSmsFake(env);
   spawnChild('shared compiler', 'npx', ['tsc', '-p', 'shared/tsconfig.json', '--watch', '--preserveWatchOutput'], env);
   spawnChild('server compiler', 'npx', ['tsc', '-p', 'server/tsconfig.build.json', '--watch', '--preserveWatchOutput'], env);
   spawnChild('server', process.execPath, ['--watch', 'server/dist/main.js'], env, { critical: true });
   spawnChild('vite', process.execPath, [join(root, 'node_modules', 'vite', 'bin', 'vite.js'), '--host', '127.0.0.1'], env, {
     critical: true,
   });
-  log('dev: http://127.0.0.1:5173 (API proxied to :3000, hot reload)');
+  log(`dev: http://127.0.0.1:5173 (API proxied to :3000, hot reload; mail inbox http://127.0.0.1:${env.MAIL_WEB_PORT}/index.html, SMS stand-in http://127.0.0.1:${env.SMS_FAKE_PORT}/)`);
 }
 
 function summarise(file) {
@@ -203,6 +227,7 @@ async function test() {
   dropDatabases(paths, 'ostium_t');
   buildAll();
   await startMail(env);
+  await startSmsFake(env);
   const results = join(dataRoot, 'test-results.json');
   mkdirSync(dataRoot, { recursive: true });
   const args = [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, ...process.argv.slice(3)];
@@ -218,6 +243,7 @@ async function bench() {
   const paths = await startDb(env, { wildcard: true });
   dropDatabases(paths, 'ostium_bench');
   build('shared', ['shared/src', 'shared/package.json']);
+  buildSmsFake();
   build('server', ['server/src', 'shared/src', 'server/package.json']);
   const dir = join(root, 'server', 'dist', 'bench');
   const only = process.argv[3];

@@ -5,11 +5,17 @@ import { fileURLToPath } from 'node:url';
 export const root = join(dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
 export const dataRoot = join(root, '.data');
 
+// Fictional local values: the SMS stand-in (fakes/sms) accepts exactly these, and nothing reaches the provider.
+const LOCAL_SMS = { accountSid: 'AC00000000000000000000000000000000', authToken: 'local-fake-auth-token', from: '+12025550199' };
+
 export function devEnv() {
   const env = process.env;
+  const port = env.PORT ?? '3000';
+  const smsFakePort = env.SMS_FAKE_PORT ?? '4010';
+  const publicUrl = env.PUBLIC_URL ?? `http://127.0.0.1:${port}`;
   return {
     NODE_ENV: env.NODE_ENV ?? 'development',
-    PORT: env.PORT ?? '3000',
+    PORT: port,
     DB_HOST: '127.0.0.1',
     DB_PORT: env.DB_PORT ?? '3307',
     DB_NAME: env.DB_NAME ?? 'ostium',
@@ -19,10 +25,15 @@ export function devEnv() {
     SMTP_HOST: env.SMTP_HOST ?? '127.0.0.1',
     SMTP_PORT: env.SMTP_PORT ?? '1025',
     MAIL_WEB_PORT: env.MAIL_WEB_PORT ?? '1080',
-    SMS_FAKE_PORT: env.SMS_FAKE_PORT ?? '4010',
+    SMS_FAKE_PORT: smsFakePort,
+    TWILIO_ACCOUNT_SID: env.TWILIO_ACCOUNT_SID ?? LOCAL_SMS.accountSid,
+    TWILIO_AUTH_TOKEN: env.TWILIO_AUTH_TOKEN ?? LOCAL_SMS.authToken,
+    TWILIO_FROM_NUMBER: env.TWILIO_FROM_NUMBER ?? LOCAL_SMS.from,
+    TWILIO_API_BASE: env.TWILIO_API_BASE ?? `http://127.0.0.1:${smsFakePort}`,
+    SMS_FAKE_INBOUND_URL: env.SMS_FAKE_INBOUND_URL ?? `${publicUrl}/api/sms/inbound`,
     MAIL_FROM: env.MAIL_FROM ?? 'Quillfern Endodontics <desk@quillfern-endo.test>',
     UPLOAD_DIR: env.UPLOAD_DIR ?? join(dataRoot, 'uploads'),
-    PUBLIC_URL: env.PUBLIC_URL ?? `http://127.0.0.1:${env.PORT ?? '3000'}`,
+    PUBLIC_URL: publicUrl,
     CLIENT_DIST: join(root, 'client', 'dist'),
     SEEDS_DIR: join(root, 'seeds'),
   };
@@ -41,6 +52,11 @@ export function testEnv() {
     SMTP_PORT: '1026',
     MAIL_WEB_PORT: '1081',
     SMS_FAKE_PORT: '4011',
+    TWILIO_ACCOUNT_SID: LOCAL_SMS.accountSid,
+    TWILIO_AUTH_TOKEN: LOCAL_SMS.authToken,
+    TWILIO_FROM_NUMBER: LOCAL_SMS.from,
+    TWILIO_API_BASE: 'http://127.0.0.1:4011',
+    SMS_FAKE_INBOUND_URL: 'http://127.0.0.1:3100/api/sms/inbound',
     UPLOAD_DIR: join(dataRoot, 'test-uploads'),
     PUBLIC_URL: 'http://127.0.0.1:3100',
     LOG_LEVEL: 'warn',
