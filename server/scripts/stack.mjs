@@ -97,7 +97,7 @@ async function shutdown(code = 0) {
   if (stopping) return;
   stopping = true;
   // Children first (the server finishes its requests and jobs while the database is still up), then MariaDB.
-  const exited = children.filter((c) => c.exitCode === null && c.signalCode === null).map((c) => new Promise((r) => c.once('exit', r)));
+  const exited = [...children].filter((c) => c.exitCode === null && c.signalCode === null).map((c) => new Promise((r) => c.once('exit', r)));
   for (const c of children) c.kill('SIGTERM');
   await Promise.race([Promise.all(exited), new Promise((r) => setTimeout(r, 5_000))]);
   if (db) await stopMariadb(db);
