@@ -24,6 +24,8 @@ export async function createApp(config: AppConfig = loadConfig()) {
     }),
   );
   app.use(cookieParser());
+  // The provider's webhooks post flat forms; keep every field name as sent (the signature covers them).
+  app.useBodyParser('urlencoded', { extended: false });
   app.useGlobalPipes(validationPipe());
   app.enableShutdownHooks();
   // CORS stays closed: the client is served from the same origin.

@@ -19,9 +19,13 @@ import { HealthModule } from './health/health.module.js';
 import { PracticesModule } from './practices/practices.module.js';
 import { AttachmentsModule } from './attachments/attachments.module.js';
 import { MailModule } from './mail/mail.module.js';
+import { MessagingModule } from './messaging/messaging.module.js';
 import { PatientsModule } from './patients/patients.module.js';
+import { LettersModule } from './referrals/letters.module.js';
 import { ReferralsModule } from './referrals/referrals.module.js';
 import { ReferringDentistsModule } from './referring-dentists/referring-dentists.module.js';
+import { RemindersModule } from './reminders/reminders.module.js';
+import { RepliesModule } from './replies/replies.module.js';
 import { SchedulingModule } from './scheduling/scheduling.module.js';
 import { SeedsModule } from './seeds/seeds.module.js';
 import { UsersModule } from './users/users.module.js';
@@ -61,6 +65,7 @@ export class AppModule implements NestModule {
         HealthModule,
         PracticesModule,
         MailModule,
+        MessagingModule,
         PatientsModule,
         ReferringDentistsModule,
         AttachmentsModule,
@@ -68,6 +73,9 @@ export class AppModule implements NestModule {
         EstimatesModule,
         CaseSheetsModule,
         SchedulingModule,
+        LettersModule,
+        RemindersModule,
+        RepliesModule,
         SeedsModule,
       ],
       providers: [

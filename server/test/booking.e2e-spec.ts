@@ -88,6 +88,9 @@ describe('booking', () => {
         JWT_SECRET: t.config.jwt.secret,
         LOG_LEVEL: 'silent',
         CLIENT_DIST: '',
+        // `npm test` exports TWILIO_API_BASE (the shared fake); this process must send nothing anywhere.
+        TWILIO_API_BASE: '',
+        MESSAGING_JOB: 'off',
       },
       stdio: 'ignore',
     });

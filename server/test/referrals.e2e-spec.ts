@@ -4,6 +4,7 @@ import { mkdtemp } from 'node:fs/promises';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { OutboxDispatcherService } from '../src/messaging/outbox-dispatcher.service.js';
 import { SeedsService } from '../src/seeds/seeds.service.js';
 import { closedPort, SMTP_PORT, waitForMail } from './helpers/mail-inbox.js';
 import { tinyPng } from './helpers/sample-files.js';
@@ -245,9 +246,12 @@ describe('referrals', () => {
       const patient = newPatient({ dateOfBirth: '1977-08-09' });
       const dentist = newDentist();
       const r = await create(base({ patient, referringDentist: dentist, procedure: 'retreatment', urgency: 'urgent', reason: 'Fistula buccal to the mesial root', notes: 'Anxious patient', teeth: [{ tooth: '32' }] }));
+      // Queued in the outbox with the referral; the outbox job sends it (off in tests: drained here).
       expect(r.letters).toEqual([
-        { id: expect.any(Number), kind: 'acknowledgement', to: dentist.email, subject: 'Referral received – Quillfern Endodontics', status: 'sent', detail: null, at: expect.any(String) },
+        { id: expect.any(Number), kind: 'acknowledgement', to: dentist.email, subject: 'Referral received – Quillfern Endodontics', status: 'queued', detail: null, at: expect.any(String), sentAt: null },
       ]);
+      await t.app.get(OutboxDispatcherService).drainOnce();
+      expect((await frontdesk.get(`/api/referrals/${r.id}`)).body.letters).toEqual([{ ...r.letters[0], status: 'sent', sentAt: expect.any(String) }]);
       const name = `${patient.firstName} ${patient.lastName}`;
       const mail = await waitForMail((m) => !!m.text?.includes(name));
       expect(mail, 'the acknowledgement reached the local inbox').not.toBeNull();
@@ -549,7 +553,8 @@ describe('referrals when the mail server is down', () => {
 
   beforeAll(async () => {
     port = await closedPort();
-    t = await createTestApp({ mail: { ...cfg.mail, host: '127.0.0.1', port }, uploadDir: await mkdtemp(join(tmpdir(), 'ostium-uploads-')) });
+    // One attempt, so the refused connection ends the letter failed at the first pass of the outbox.
+    t = await createTestApp({ mail: { ...cfg.mail, host: '127.0.0.1', port }, messaging: { maxAttempts: 1 }, uploadDir: await mkdtemp(join(tmpdir(), 'ostium-uploads-')) });
     frontdesk = await t.as('frontdesk');
   });
   afterAll(async () => t?.close());
@@ -566,11 +571,12 @@ describe('referrals when the mail server is down', () => {
     });
     expect(res.status).toBe(201);
     expect(res.body.teeth).toEqual(['46']); // Universal 30 → FDI 46 (ISO 3950 / HL7 crosswalk, references.md)
-    expect(res.body.letters).toEqual([
-      expect.objectContaining({ kind: 'acknowledgement', status: 'failed', detail: `the mail server at 127.0.0.1:${port} refused the connection` }),
-    ]);
+    expect(res.body.letters).toEqual([expect.objectContaining({ kind: 'acknowledgement', status: 'queued' })]);
+    await t.app.get(OutboxDispatcherService).drainOnce();
     const again = await frontdesk.get(`/api/referrals/${res.body.id}`);
     expect(again.status).toBe(200);
-    expect(again.body.letters[0].status).toBe('failed');
+    expect(again.body.letters).toEqual([
+      expect.objectContaining({ kind: 'acknowledgement', status: 'failed', detail: `the mail server at 127.0.0.1:${port} refused the connection (gave up after 1 attempts)` }),
+    ]);
   });
 });

@@ -8,6 +8,7 @@ export * from './estimates.types.js';
 export * from './default-estimate-table.util.js';
 export * from './referrals.types.js';
 export * from './case-sheets.types.js';
+export * from './completion.types.js';
 export * from './scheduling.types.js';
 export * from './messaging.types.js';
 export * from './reports.types.js';

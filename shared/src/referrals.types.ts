@@ -114,14 +114,20 @@ export interface AttachmentSummary {
   kind: 'radiograph' | 'letter';
   createdAt: string;
 }
+export const LETTER_KINDS = ['acknowledgement', 'booking_notice', 'completion_report'] as const;
+/** queued: waiting in the outbox (detail says why when a send is being retried); the others are ends. */
+export const LETTER_STATUSES = ['queued', 'sent', 'failed', 'skipped'] as const;
 export interface LetterSummary {
   id: number;
-  kind: 'acknowledgement' | 'booking_notice' | 'completion_report';
+  kind: (typeof LETTER_KINDS)[number];
   to: string;
   subject: string;
-  status: 'sent' | 'failed' | 'skipped';
+  status: (typeof LETTER_STATUSES)[number];
   detail: string | null;
+  /** When the letter was queued (or logged, for a skip). */
   at: string;
+  /** When the mail server took it; null until then. */
+  sentAt?: string | null;
 }
 export interface ReferralListItem {
   id: number;

@@ -12,7 +12,7 @@ export interface OutgoingAttachment {
 
 export type ComposeDecision =
   /** Send now with this content (to/body may differ from the row's when the appointment moved). */
-  | { action: 'send'; to: string; subject?: string | null; body: string; attachments?: OutgoingAttachment[] }
+  | { action: 'send'; to: string; subject?: string | null; body: string; html?: string | null; attachments?: OutgoingAttachment[] }
   /** Not yet: move the row to `dueAt` and say why ("quiet hours in America/New_York until 08:00"). */
   | { action: 'defer'; dueAt: Date; reason: string }
   /** Never: an explicit skip with the reason shown to the front desk ("no text consent", "already confirmed"). */

@@ -1,5 +1,5 @@
-import { formatPhone } from '@ostium/shared';
 import { DateTime } from 'luxon';
+import { contactPhrase, LETTER_LOCALE, paragraphsHtml, placeLine } from './letter-format.util.js';
 
 export interface AcknowledgementFacts {
   practice: { name: string; phone: string | null; email: string | null };
@@ -15,16 +15,7 @@ export interface ComposedLetter {
   html: string;
 }
 
-const escapeHtml = (s: string) => s.replace(/[&<>"']/g, (c) => ({ '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' })[c]!);
-
-function phoneShown(e164: string | null): string | null {
-  if (!e164) return null;
-  try {
-    return formatPhone(e164);
-  } catch {
-    return e164;
-  }
-}
+export const acknowledgementSubject = (practiceName: string) => `Referral received – ${practiceName}`;
 
 /**
  * The acknowledgement to the referring dentist. Minimum necessary (45 CFR 164.502(b), see
@@ -34,11 +25,10 @@ function phoneShown(e164: string | null): string | null {
  */
 export function composeAcknowledgement(f: AcknowledgementFacts): ComposedLetter {
   const patient = `${f.patient.firstName} ${f.patient.lastName}`;
-  const received = DateTime.fromISO(f.receivedOn, { zone: 'utc' }).toFormat('d LLLL yyyy');
-  const phone = phoneShown(f.location.phone) ?? phoneShown(f.practice.phone);
-  const contact = [phone ? `phone ${phone}` : null, f.practice.email ? `e-mail ${f.practice.email}` : null].filter(Boolean).join(', ');
-  const place = [f.location.name, f.location.address].filter(Boolean).join(', ');
-  const subject = `Referral received – ${f.practice.name}`;
+  const received = DateTime.fromISO(f.receivedOn, { zone: 'utc', locale: LETTER_LOCALE }).toFormat('d LLLL yyyy');
+  const contact = contactPhrase(f.practice, f.location);
+  const place = placeLine(f.location);
+  const subject = acknowledgementSubject(f.practice.name);
   const paragraphs = [
     `Dear ${f.dentist.name},`,
     `thank you for your referral of ${patient}, which we received on ${received}.`,
@@ -47,8 +37,5 @@ export function composeAcknowledgement(f: AcknowledgementFacts): ComposedLetter 
     `Kind regards,\n${f.practice.name}${place ? `\n${place}` : ''}`,
   ];
   const text = `${paragraphs.join('\n\n')}\n`;
-  const html = `<!doctype html><html><body style="font-family: sans-serif; line-height: 1.5">${paragraphs
-    .map((p) => `<p>${escapeHtml(p).replace(/\n/g, '<br>')}</p>`)
-    .join('')}</body></html>`;
-  return { subject, text, html };
+  return { subject, text, html: paragraphsHtml(paragraphs) };
 }

@@ -1,7 +1,6 @@
 import { Module } from '@nestjs/common';
 import { SequelizeModule } from '@nestjs/sequelize';
 import { AttachmentsModule } from '../attachments/attachments.module.js';
-import { MailModule } from '../mail/mail.module.js';
 import { PatientsModule } from '../patients/patients.module.js';
 import { Location } from '../practices/models/location.model.js';
 import { PracticesModule } from '../practices/practices.module.js';
@@ -21,7 +20,6 @@ import { ReferralsService } from './referrals.service.js';
     PatientsModule,
     ReferringDentistsModule,
     AttachmentsModule,
-    MailModule,
   ],
   controllers: [ReferralsController],
   providers: [ReferralsService, LettersService],

@@ -1,4 +1,4 @@
-import { BadRequestException, ConflictException, Injectable, Logger, NotFoundException } from '@nestjs/common';
+import { BadRequestException, ConflictException, Injectable, NotFoundException } from '@nestjs/common';
 import { InjectModel } from '@nestjs/sequelize';
 import {
   REFERRAL_STATUSES,
@@ -77,8 +77,6 @@ const INCLUDE_PARTIES = [
 
 @Injectable()
 export class ReferralsService {
-  private readonly logger = new Logger('Referrals');
-
   constructor(
     private readonly sequelize: Sequelize,
     private readonly practices: PracticesService,
@@ -95,8 +93,8 @@ export class ReferralsService {
   // ---------- intake ----------
 
   /**
-   * Saves a referral with its patient and referring dentist (existing or new), one case per tooth and
-   * its uploads in one transaction; then, after the commit, acknowledges it to the referring dentist.
+   * Saves a referral with its patient and referring dentist (existing or new), one case per tooth, its
+   * uploads and the acknowledgement to the referring dentist (queued in the outbox) in one transaction.
    */
   async create(practiceId: number, actor: Actor, dto: CreateReferralDto, opts: { sendLetters?: boolean; at?: Date } = {}): Promise<Referral> {
     const practice = await this.practices.get(practiceId);
@@ -169,13 +167,12 @@ export class ReferralsService {
       }
       await this.events.create({ practiceId, referralId: referral.id, status: 'received', reason: null, byUserId: actor.id, byName: actor.name, at: now }, { transaction });
       await this.attachments.linkToReferral(practiceId, dto.attachmentIds ?? [], referral.id, transaction);
+      if (opts.sendLetters !== false) {
+        // Queued in the outbox with the referral: it goes when the mail server takes it, and never without the referral.
+        await this.letters.queueAcknowledgement(practiceId, referral.id, { name: dentist.name, email: dentist.email, letterChannel: dentist.letterChannel }, { at: now, createdBy: actor.id, transaction });
+      }
       return referral.id;
     });
-
-    if (opts.sendLetters !== false) {
-      // After the commit: a mail server that is down costs the letter, never the referral.
-      await this.letters.sendAcknowledgement(practiceId, id).catch((e: Error) => this.logger.error(`acknowledgement for referral ${id} not logged: ${e.message}`));
-    }
     return this.get(practiceId, id);
   }
 
@@ -344,6 +341,12 @@ export class ReferralsService {
 
   async getCase(practiceId: number, caseId: number, transaction?: Transaction): Promise<CaseRecord> {
     return ReferralsService.caseRecord(await this.findCase(practiceId, caseId, transaction));
+  }
+
+  /** The cases of one referral, read inside the caller's transaction (to see its own uncommitted changes). */
+  async casesOf(practiceId: number, referralId: number, transaction?: Transaction): Promise<CaseSummary[]> {
+    const rows = await this.cases.findAll({ where: { practiceId, referralId }, order: [['id', 'ASC']], transaction });
+    return rows.map(mapCase);
   }
 
   /** Changes a case's stored fields (audited); pass a transaction to make it part of a larger change. */

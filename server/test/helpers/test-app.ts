@@ -23,8 +23,14 @@ export const DEMO_EMAIL: Record<Role, string> = {
   frontdesk: 'frontdesk@quillfern-endo.test',
 };
 
-/** The test database server started by `npm test` (server/scripts/stack.mjs test). */
-export function testConfig(overrides: Partial<AppConfig> = {}): AppConfig {
+/** Config overrides; `sms` and `messaging` may name only the fields a test changes. */
+export type TestConfigOverrides = Omit<Partial<AppConfig>, 'sms' | 'messaging'> & { sms?: Partial<AppConfig['sms']>; messaging?: Partial<AppConfig['messaging']> };
+
+/**
+ * The test database server started by `npm test` (server/scripts/stack.mjs test). The outbox job is off
+ * and texts have nowhere to go unless a test says otherwise (messaging.jobEnabled, sms.apiBase).
+ */
+export function testConfig(overrides: TestConfigOverrides = {}): AppConfig {
   const base = loadConfig({
     ...process.env,
     NODE_ENV: 'test',
@@ -37,7 +43,13 @@ export function testConfig(overrides: Partial<AppConfig> = {}): AppConfig {
     SEEDS_DIR: join(repoRoot, 'seeds'),
     CLIENT_DIST: '',
   });
-  return { ...base, ...overrides, clientDist: null };
+  return {
+    ...base,
+    ...overrides,
+    sms: { ...base.sms, apiBase: null, ...overrides.sms },
+    messaging: { ...base.messaging, jobEnabled: false, ...overrides.messaging },
+    clientDist: null,
+  };
 }
 
 /** Creates an empty database of its own for one test file (files run in parallel). */
@@ -75,7 +87,7 @@ export interface TestApp {
 }
 
 /** A migrated, seeded database of its own and the full Nest application on it. */
-export async function createTestApp(overrides: Partial<AppConfig> = {}, { seed = true } = {}): Promise<TestApp> {
+export async function createTestApp(overrides: TestConfigOverrides = {}, { seed = true } = {}): Promise<TestApp> {
   const probe = testConfig(overrides);
   const dbName = await createDatabase(probe);
   const config = { ...probe, db: { ...probe.db, name: dbName } };

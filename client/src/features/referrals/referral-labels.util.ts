@@ -46,4 +46,4 @@ export const LETTER_KIND_LABELS: Record<LetterSummary['kind'], string> = {
   booking_notice: 'Booking notice',
   completion_report: 'Completion report',
 };
-export const LETTER_STATUS_COLORS: Record<LetterSummary['status'], string> = { sent: 'lagoon', failed: 'red', skipped: 'stone' };
+export const LETTER_STATUS_COLORS: Record<LetterSummary['status'], string> = { queued: 'amber', sent: 'lagoon', failed: 'red', skipped: 'stone' };

@@ -46,6 +46,16 @@ describe('renderTemplate', () => {
     expect(() => renderTemplate('{practice} {date}. Call 555-0142 to cancel.', values)).toThrow(/opt out/);
   });
 
+  it('knows {confirmLink} and counts the link into the length', () => {
+    const link = 'https://visits.example.com/v/AAAAAQAAAAAxxxxxxxxxxx';
+    const r = renderTemplate('{practice}: {date} {time}. Confirm: {confirmLink} {optOut}', { ...values, confirmLink: link });
+    expect(r.placeholders).toEqual(['practice', 'date', 'time', 'confirmLink', 'optOut']);
+    expect(r.text).toBe(`Demo Endodontics: Tue 16 Jun 9:30. Confirm: ${link} Reply STOP to opt out.`);
+    expect(r.length.units).toBe(r.text.length);
+    expect(templatePlaceholders('{confirmLink} {confirmlink}')).toEqual({ known: ['confirmLink'], unknown: ['confirmlink'] });
+    expect(() => renderTemplate('{confirmLink} {optOut}', values)).toThrow('no value for {confirmLink}');
+  });
+
   it('refuses placeholders without a value', () => {
     expect(() => renderTemplate(TEMPLATE, { ...values, location: '  ' })).toThrow('no value for {location}');
   });

@@ -3,7 +3,9 @@
 import { classifyReply } from './keywords.util.js';
 import { smsLength, type SmsLength } from './sms-encoding.util.js';
 
-export const TEMPLATE_PLACEHOLDERS = ['practice', 'date', 'time', 'location', 'confirmHint', 'optOut'] as const;
+// confirmLink: the signed, expiring link to the visit's public page (confirm-link.util.ts); it carries no
+// detail itself, only an opaque token.
+export const TEMPLATE_PLACEHOLDERS = ['practice', 'date', 'time', 'location', 'confirmHint', 'optOut', 'confirmLink'] as const;
 export type TemplatePlaceholder = (typeof TEMPLATE_PLACEHOLDERS)[number];
 export type TemplateValues = Partial<Record<TemplatePlaceholder, string>>;
 
