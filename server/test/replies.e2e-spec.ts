@@ -1,6 +1,7 @@
 import type { SmsFake } from '@ostium/sms-fake';
 import type { Connection } from 'mariadb';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { MessagingClock } from '../src/messaging/messaging-clock.service.js';
 import { OutboxService } from '../src/messaging/outbox.service.js';
 import { ReminderPlannerService } from '../src/reminders/reminder-planner.service.js';
 import { connect, startFake } from './helpers/outbox-fixture.js';
@@ -231,12 +232,17 @@ describe('inbound texts: keywords and their effects', () => {
         appointmentId: appt.id,
         patientId: p.patientId,
         to: p.phone,
-        dueAt: textingNow(),
+        // Due at the (frozen) messaging clock's now, so the first drain takes it.
+        dueAt: t.app.get(MessagingClock).now(),
       });
       await drain(t);
       // The reminder composer first moves it to its rule's time (48 h before); there it finds no consent.
       const [moved] = await q<{ status: string; due_at: Date }>('SELECT status, due_at FROM outbox_messages WHERE id = ?', [late.row.id]);
-      if (moved!.status === 'pending') await drain(t, new Date(moved!.due_at));
+      // Other tests' reminders also fall due by then; a frozen clock would claim them (and their deferrals) first.
+      await db.query("UPDATE outbox_messages SET status = 'cancelled' WHERE status = 'pending' AND id <> ?", [late.row.id]);
+      expect(moved!.status).toBe('pending');
+      expect(new Date(moved!.due_at).getTime()).toBeGreaterThan(t.app.get(MessagingClock).now().getTime());
+      await drain(t, new Date(moved!.due_at));
       const [after] = await q<{ status: string; defer_reason: string }>('SELECT status, defer_reason FROM outbox_messages WHERE id = ?', [late.row.id]);
       expect(after).toEqual({ status: 'skipped', defer_reason: 'no text consent' });
       expect(fake.messages({ to: p.phone, direction: 'outbound-api' }).map((x) => x.body)).toEqual([`You will get no more texts from ${PRACTICE}. Reply START to resume.`]);
