@@ -24,6 +24,7 @@ import { PatientsModule } from './patients/patients.module.js';
 import { LettersModule } from './referrals/letters.module.js';
 import { ReferralsModule } from './referrals/referrals.module.js';
 import { ReferringDentistsModule } from './referring-dentists/referring-dentists.module.js';
+import { ReportsModule } from './reports/reports.module.js';
 import { RemindersModule } from './reminders/reminders.module.js';
 import { RepliesModule } from './replies/replies.module.js';
 import { SchedulingModule } from './scheduling/scheduling.module.js';
@@ -73,6 +74,7 @@ export class AppModule implements NestModule {
         EstimatesModule,
         CaseSheetsModule,
         SchedulingModule,
+        ReportsModule,
         LettersModule,
         RemindersModule,
         RepliesModule,

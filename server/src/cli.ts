@@ -6,7 +6,7 @@ import { loadConfig } from './config/configuration.js';
 import { createMigrator } from './database/migrator.js';
 import { SeedsService } from './seeds/seeds.service.js';
 
-// `node dist/cli.js migrate | migrate:down | seed [--if-empty]`
+// `node dist/cli.js migrate | migrate:down | seed [--if-empty] [--no-history]`
 const [command, ...flags] = process.argv.slice(2);
 const config = { ...loadConfig(), logLevel: 'warn' };
 
@@ -25,12 +25,13 @@ async function main() {
   if (command === 'seed') {
     const app = await NestFactory.createApplicationContext(AppModule.forRoot(config), { logger: ['error', 'warn'] });
     const seeds = app.get(SeedsService);
-    const summary = await seeds.loadDemo({ ifEmpty: flags.includes('--if-empty'), dir: config.seedsDir ?? undefined });
+    // The demo with its past months of visits, unless --no-history.
+    const summary = await seeds.loadDemo({ ifEmpty: flags.includes('--if-empty'), dir: config.seedsDir ?? undefined, history: !flags.includes('--no-history') });
     console.log(`[ostium] seed: ${summary}`);
     await app.close();
     return;
   }
-  console.error('usage: cli.js migrate | migrate:down | seed [--if-empty]');
+  console.error('usage: cli.js migrate | migrate:down | seed [--if-empty] [--no-history]');
   process.exit(2);
 }
 

@@ -62,12 +62,17 @@ export interface AttendanceReport {
     lateCancellations: number;
     earlyCancellations: number;
     sameDayFills: number;
+    /** Visits in the range still booked or confirmed (upcoming, or past with no outcome recorded); not in `visits`. */
+    open: number;
     /** attended + noShows + lateCancellations = visits; the shares add to 1. */
     attendedShare: number | null;
     noShowShare: number | null;
     lateCancellationShare: number | null;
   };
-  /** How confirmed visits were confirmed; shares add to 1 over confirmed visits. */
+  /**
+   * How the visits that took place or were missed (attended + no-shows) were confirmed, 'unconfirmed' for
+   * the rest; the shares add to 1 over those visits, and the four channels' shares add to confirmationRate.
+   */
   confirmationByChannel: { channel: 'sms' | 'email' | 'link' | 'desk' | 'unconfirmed'; visits: number; share: number | null }[];
   /** Confirmed visits by how many reminders had gone before the confirmation (0, 1, 2, 3 or more). */
   confirmationByReminders: { reminders: '0' | '1' | '2' | '3+'; visits: number; share: number | null }[];
@@ -94,6 +99,8 @@ export interface EstimateAccuracyReport {
   totals: { visits: number; beforeMae: number | null; afterMae: number | null };
   /** A chair's day whose last visit (with turnover) ended after the location's closing time. */
   overrunDays: { date: string; chairId: number; chairName: string; closesAt: string; lastEndAt: string; overrunMinutes: number }[];
+  /** The same errors by month of the visit ("YYYY-MM"), in order; months without visits are left out. */
+  byMonth: { month: string; visits: number; beforeMae: number | null; afterMae: number | null }[];
 }
 
 export interface BacklogRow {
@@ -107,10 +114,17 @@ export interface BacklogRow {
 }
 
 export interface BacklogReport {
+  /** The past days the average minutes per level come from (GET from/to, default the last 365 days). */
   range: ReportRange;
+  /** The local days (from tomorrow) whose free time the forecast counts. */
+  horizon: { from: string; to: string; weeks: number };
   /** Open chair minutes per week still free (open − booked), averaged over the next weeks used. */
   freeChairMinutesPerWeek: number;
   openChairMinutesPerWeek: number;
+  /** Working minutes of the endodontists per week still free (working − booked clinical minutes). */
+  freeOperatorMinutesPerWeek: number;
+  /** What the backlog is divided by: free chair minutes with an endodontist free at the same location and day. */
+  capacityMinutesPerWeek: number;
   /** Minutes an average case of each level takes, the figures the backlog is priced at. */
   averageMinutesByLevel: { level: DifficultyLevel | 'untriaged'; minutes: number; basis: 'visits' | 'estimate_table' }[];
   rows: BacklogRow[];
@@ -125,9 +139,12 @@ export interface BacklogReport {
 
 export interface BacklogWhatIfRequest {
   locationId?: number;
-  /** Chair days to add (positive) or remove (negative) per week. */
+  /** The past days the average minutes per level come from (as GET /api/reports/backlog); default the last 365 days. */
+  from?: string;
+  to?: string;
+  /** Chair days to add (positive) or remove (negative) per week; a chair day comes with an endodontist to work it. */
   chairDaysPerWeek: number;
-  /** Operator days to add or remove per week. */
+  /** Operator days to add or remove per week: an endodontist's day in chairs that are already open. */
   operatorDaysPerWeek: number;
 }
 
@@ -136,7 +153,7 @@ export interface BacklogWhatIfResponse {
   after: BacklogReport;
   change: { weeksOfBacklog: number | null; leadTimeWeeks: number | null };
   /** Minutes one chair day and one operator day stand for in this forecast. */
-  assumptions: { chairDayMinutes: number; operatorDayMinutes: number };
+  assumptions: { chairDayMinutes: number; operatorDayMinutes: number; horizonWeeks: number };
 }
 
 export type ReportName = 'chair-use' | 'operator-use' | 'attendance' | 'referrals' | 'estimate-accuracy' | 'backlog';
@@ -156,8 +173,13 @@ export const REPORT_DEFINITIONS = {
   confirmationRate: 'Visits confirmed (by text, e-mail link or the front desk) ÷ visits that took place or were missed.',
   leadTime: 'Days from a referral’s receipt to its first visit; median and 90th percentile (nearest rank).',
   backlog:
-    'Cases planned but not booked, and cases still to triage, priced at the practice’s average minutes for their level, ÷ free chair minutes per week.',
+    'Cases planned but not booked, and cases still to triage, priced at the practice’s average minutes for their level, ÷ free chair minutes per week (chair time with an endodontist free to work it).',
 } as const;
 export type ReportDefinitionKey = keyof typeof REPORT_DEFINITIONS;
 
 export const DEFAULT_LATE_CANCEL_NOTICE_HOURS = 48;
+
+/** GET/PUT /api/settings/reports: the practice's late-cancellation notice (practice setting lateCancellationHours). */
+export interface ReportSettings {
+  lateCancelNoticeHours: number;
+}

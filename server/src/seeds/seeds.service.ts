@@ -11,6 +11,7 @@ import { ReferralsService } from '../referrals/referrals.service.js';
 import { ReferringDentistsService } from '../referring-dentists/referring-dentists.service.js';
 import { DemoScheduleService } from '../scheduling/demo-schedule.service.js';
 import { UsersService } from '../users/users.service.js';
+import { DemoHistoryService } from './demo-history.service.js';
 
 interface DemoPractice {
   practice: { name: string; phone?: string; email?: string; settings?: Partial<PracticeSettings> };
@@ -60,9 +61,14 @@ export class SeedsService {
     private readonly dentists: ReferringDentistsService,
     private readonly referrals: ReferralsService,
     private readonly schedule: DemoScheduleService,
+    private readonly history: DemoHistoryService,
   ) {}
 
-  async loadDemo({ ifEmpty = false, dir }: { ifEmpty?: boolean; dir?: string } = {}): Promise<string> {
+  /**
+   * `history` also writes about four months of past visits before today (demo-history.service.ts), as
+   * `npm run seed` and `npm start` do; the API tests load the demo without it, so their counts stay put.
+   */
+  async loadDemo({ ifEmpty = false, dir, history = false }: { ifEmpty?: boolean; dir?: string; history?: boolean } = {}): Promise<string> {
     if (ifEmpty && (await this.practices.count()) > 0) return 'database already holds a practice; nothing loaded';
     const seedsDir = dir ?? join(process.cwd(), 'seeds');
     const demo: DemoPractice = JSON.parse(await readFile(join(seedsDir, 'demo', 'practice.json'), 'utf8'));
@@ -90,7 +96,8 @@ export class SeedsService {
     }
     const intake = await this.loadReferrals(practice.id, seedsDir, locations);
     const schedule = await this.schedule.load(practice.id);
-    return `practice "${practice.name}", ${demo.locations.length} locations, ${chairs} chairs, ${created} new users${schedule}${intake}`;
+    const past = history ? await this.history.load(practice.id) : '';
+    return `practice "${practice.name}", ${demo.locations.length} locations, ${chairs} chairs, ${created} new users${schedule}${past}${intake}`;
   }
 
   /**

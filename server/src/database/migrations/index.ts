@@ -5,6 +5,7 @@ import * as m0003 from './20261201-0003-estimates.js';
 import * as m0004 from './20261201-0004-scheduling.js';
 import * as m0005 from './20261202-0005-messaging.js';
 import * as m0006 from './20261202-0006-letters.js';
+import * as m0007 from './20261202-0007-reports.js';
 
 export interface Migration {
   name: string;
@@ -20,4 +21,5 @@ export const MIGRATIONS: Migration[] = [
   { name: '20261201-0004-scheduling', ...m0004 },
   { name: '20261202-0005-messaging', ...m0005 },
   { name: '20261202-0006-letters', ...m0006 },
+  { name: '20261202-0007-reports', ...m0007 },
 ];
