@@ -10,6 +10,14 @@ describe('navFor', () => {
     }
   });
 
+  it('shows Replies to the front desk and admin, and Reminders (with the settings) to admin and manager', () => {
+    const who = (label: string) => ROLES.filter((r) => navFor(r).some((i) => i.label === label));
+    expect(who('Replies')).toEqual(['admin', 'frontdesk']);
+    expect(who('Reminders')).toEqual(['admin', 'manager']);
+    expect(NAV_ITEMS.find((i) => i.label === 'Reminders')).toMatchObject({ to: '/settings/reminders', section: 'admin' });
+    expect(NAV_ITEMS.find((i) => i.label === 'Replies')).toMatchObject({ to: '/replies', section: 'work' });
+  });
+
   it('shows each item exactly to the roles the server allows', () => {
     for (const item of NAV_ITEMS.filter((i) => i.capability)) {
       for (const role of ROLES) {

@@ -1,6 +1,9 @@
 import { can, type Capability, type Role } from '@ostium/shared';
 import { caseSheetNavItems } from '../features/case-sheet/nav';
 import { chairBoardNavItems } from '../features/chair-board/nav';
+import { reminderSettingsNavItems } from '../features/reminder-settings/nav';
+import { repliesNavItems } from '../features/replies/nav';
+import { chairUseNavItems } from '../features/chair-use/nav';
 import { IconAddressBook, IconFilePlus, IconHistory, IconListDetails, IconSun, IconUserHeart, IconUsers, type Icon } from '@tabler/icons-react';
 
 export interface NavItem {
@@ -20,10 +23,13 @@ export const NAV_ITEMS: NavItem[] = [
   { to: '/patients', label: 'Patients', icon: IconUserHeart, capability: 'referralsRead', section: 'work' },
   ...chairBoardNavItems.filter((i) => i.section === 'work'),
   ...caseSheetNavItems.filter((i) => i.section === 'work'),
+  ...repliesNavItems.filter((i) => i.section === 'work'),
+  ...chairUseNavItems,
   { to: '/admin/users', label: 'Users and roles', icon: IconUsers, capability: 'users', section: 'admin' },
   { to: '/admin/audit', label: 'Audit log', icon: IconHistory, capability: 'audit', section: 'admin' },
   ...chairBoardNavItems.filter((i) => i.section === 'admin'),
   ...caseSheetNavItems.filter((i) => i.section === 'admin'),
+  ...reminderSettingsNavItems.filter((i) => i.section === 'admin'),
 ];
 
 export function navFor(role: Role): NavItem[] {

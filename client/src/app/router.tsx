@@ -11,10 +11,15 @@ import { ReferralQueuePage } from '../features/referrals/components/referral-que
 import { UsersPage } from '../features/users/components/users-page';
 import { caseSheetRoutes } from '../features/case-sheet/routes';
 import { chairBoardRoutes } from '../features/chair-board/routes';
+import { publicVisitRoutes } from '../features/public-visit/routes';
+import { reminderSettingsRoutes } from '../features/reminder-settings/routes';
+import { repliesRoutes } from '../features/replies/routes';
+import { chairUseRoutes } from '../features/chair-use/routes';
 import { Shell } from './shell';
 
 export const routes = [
   { path: '/sign-in', element: <SignInPage /> },
+  ...publicVisitRoutes,
   {
     path: '/',
     element: (
@@ -33,6 +38,9 @@ export const routes = [
       { path: 'admin/audit', element: <RequireAccess capability="audit"><AuditPage /></RequireAccess> },
       ...caseSheetRoutes,
       ...chairBoardRoutes,
+      ...repliesRoutes,
+      ...reminderSettingsRoutes,
+      ...chairUseRoutes,
       { path: '*', element: <Navigate to="/" replace /> },
     ],
   },

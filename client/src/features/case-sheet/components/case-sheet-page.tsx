@@ -15,6 +15,7 @@ import { useCaseSheet, useUpdateCaseSheet } from '../api/case-sheet';
 import { useEstimatePreview, useFactors } from '../api/estimates';
 import { draftErrors, draftFromCase, patchBody, previewRequest, PROCEDURE_LABELS, toothName, type SheetDraft } from '../case-sheet.util';
 import { AssessmentPanel } from './assessment-panel';
+import { CompletionCard } from './completion-card';
 import { EstimateCard } from './estimate-card';
 import { OverrideEditor } from './override-editor';
 import { FindTimesButton } from '../../time-finder/components/find-times-button';
@@ -50,6 +51,9 @@ function fieldErrors(e: unknown): Record<string, string> {
 function CaseSheetEditor({ sheet, factors }: { sheet: CaseSheet; factors: FactorDefinition[] }) {
   const role = useSession()?.user.role;
   const mayAdjust = can(role, 'casesAdjust');
+  const mayComplete = can(role, 'completionReport');
+  // Once visits are under way, finishing is what the endodontist came for: the card goes first.
+  const finishing = ['booked', 'in_treatment', 'completed', 'report_sent'].includes(sheet.status);
   const notation = usePractice().data?.settings.toothNotation ?? 'fdi';
   const operators = useQuery({ ...usersQuery('endodontist'), enabled: can(role, 'cases') });
   const save = useUpdateCaseSheet(sheet.id);
@@ -149,6 +153,7 @@ function CaseSheetEditor({ sheet, factors }: { sheet: CaseSheet; factors: Factor
       <Grid gap="lg">
         <Grid.Col span={{ base: 12, lg: 7 }}>
           <Stack gap="md">
+            {mayComplete && finishing && <CompletionCard caseId={sheet.id} />}
             <Card p="md" component="section" aria-label="Procedure">
               <Group gap="md" align="flex-start" wrap="wrap">
                 <Select
@@ -203,6 +208,7 @@ function CaseSheetEditor({ sheet, factors }: { sheet: CaseSheet; factors: Factor
               onLevel={(key, level) => setDraft((d) => ({ ...d, assessment: { ...d.assessment, [key]: level } }))}
               onFacts={(facts) => update({ facts })}
             />
+            {mayComplete && !finishing && <CompletionCard caseId={sheet.id} />}
           </Stack>
         </Grid.Col>
         <Grid.Col span={{ base: 12, lg: 5 }}>

@@ -1,0 +1,47 @@
+import type { CaseCompletionView, CompleteCaseRequest } from '@ostium/shared';
+import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
+import { api, apiBlob } from '../../../lib/api-client';
+import { caseKeys } from './case-sheet';
+
+export const completionKeys = {
+  detail: (caseId: number) => [...caseKeys.detail(caseId), 'completion'] as const,
+};
+
+export const completionQuery = (caseId: number) =>
+  queryOptions({
+    queryKey: completionKeys.detail(caseId),
+    queryFn: ({ signal }) => api<CaseCompletionView>(`/cases/${caseId}/completion`, { signal }),
+    // A queued report becomes sent (or failed) a moment later; ask again while one is on its way.
+    refetchInterval: (q) => (q.state.data?.completion?.report?.status === 'queued' ? 5_000 : false),
+  });
+
+export const useCompletion = (caseId: number) => useQuery(completionQuery(caseId));
+
+export function useCompleteCase(caseId: number) {
+  const qc = useQueryClient();
+  return useMutation({
+    mutationFn: (body: CompleteCaseRequest) => api<CaseCompletionView>(`/cases/${caseId}/completion`, { method: 'POST', body }),
+    onSuccess: (view) => {
+      qc.setQueryData(completionKeys.detail(caseId), view);
+      // The case and its referral are completed now; their pages and lists must ask again.
+      void qc.invalidateQueries({ queryKey: caseKeys.detail(caseId), exact: true });
+      void qc.invalidateQueries({ queryKey: ['referrals'] });
+    },
+  });
+}
+
+export const letterPdfPath = (letterId: number) => `/letters/${letterId}/pdf`;
+
+/** Opens the report's PDF in a new tab; the tab opens first so the browser treats it as the user's click. */
+export async function openLetterPdf(letterId: number): Promise<void> {
+  const tab = window.open('', '_blank');
+  try {
+    const url = URL.createObjectURL(await apiBlob(letterPdfPath(letterId)));
+    if (tab) tab.location.href = url;
+    else window.location.assign(url);
+    setTimeout(() => URL.revokeObjectURL(url), 60_000);
+  } catch (e) {
+    tab?.close();
+    throw e;
+  }
+}
