@@ -3,7 +3,7 @@
 // out, the estimator's own accuracyReport method), so no visit grades a model that has already seen it.
 // Overrun days: a chair's day whose last done visit, with its turnover, ended after closing. Pure.
 import { LEVELS, type CompletedVisit, type EstimateAccuracyReport, type Level } from '@ostium/shared';
-import { cellKey, clippedLogRatio, type CalibrationOptions } from '../estimates/estimator/index.js';
+import { predictLeavingOneOut, type CalibrationOptions } from '../estimates/estimator/index.js';
 import type { ReportChair } from './chair-use.util.js';
 import { clockFor, closedDays, daySpan, formatLocalDate, MINUTE_MS, monthOf, openOnDay, parseLocalDate, roundMinutes, type LocalDay, type ReportLocation } from './report-time.util.js';
 
@@ -26,46 +26,11 @@ export interface VisitError {
 
 /**
  * Each visit's error before and after calibration. The leave-one-out prediction removes the visit from
- * its cell's shrunk mean and from its operator's, exactly as accuracyReport in the estimator does.
+ * its cell's shrunk mean and from its operator's: the estimator's own predictLeavingOneOut, as its accuracyReport uses.
  */
 export function visitErrors(visits: readonly AccuracyVisit[], o: CalibrationOptions): VisitError[] {
-  const r = visits.map((v) => clippedLogRatio(v.actualMinutes, v.estimatedMinutes, o.ratioClip));
-  const keys = visits.map((v) => cellKey(v));
-  const cellSum = new Map<string, number>();
-  const cellCount = new Map<string, number>();
-  keys.forEach((k, i) => {
-    cellSum.set(k, (cellSum.get(k) ?? 0) + r[i]!);
-    cellCount.set(k, (cellCount.get(k) ?? 0) + 1);
-  });
-  const cellEffect = new Map<string, number>();
-  for (const [k, s] of cellSum) cellEffect.set(k, s / (cellCount.get(k)! + o.cellPseudoVisits));
-  const opSum = new Map<number, number>();
-  const opCount = new Map<number, number>();
-  const opCell = new Map<string, number>();
-  visits.forEach((v, i) => {
-    if (v.operatorId === undefined || v.operatorId === null) return;
-    opSum.set(v.operatorId, (opSum.get(v.operatorId) ?? 0) + r[i]! - cellEffect.get(keys[i]!)!);
-    opCount.set(v.operatorId, (opCount.get(v.operatorId) ?? 0) + 1);
-    const k = `${v.operatorId}|${keys[i]}`;
-    opCell.set(k, (opCell.get(k) ?? 0) + 1);
-  });
-  return visits.map((v, i) => {
-    const k = keys[i]!;
-    const n = cellCount.get(k)!;
-    const cFull = cellEffect.get(k)!;
-    const cellDenom = n - 1 + o.cellPseudoVisits;
-    const cLoo = cellDenom > 0 ? (cellSum.get(k)! - r[i]!) / cellDenom : 0;
-    let oLoo = 0;
-    if (v.operatorId !== undefined && v.operatorId !== null) {
-      const e = r[i]! - cFull;
-      const sameCell = opCell.get(`${v.operatorId}|${k}`)! - 1;
-      const sum = opSum.get(v.operatorId)! - e + sameCell * (cFull - cLoo);
-      const denom = opCount.get(v.operatorId)! - 1 + o.operatorPseudoVisits;
-      oLoo = denom > 0 ? sum / denom : 0;
-    }
-    const predicted = v.estimatedMinutes * Math.exp(cLoo + oLoo);
-    return { visit: v, before: v.actualMinutes - v.estimatedMinutes, after: v.actualMinutes - predicted };
-  });
+  const predicted = predictLeavingOneOut(visits, o);
+  return visits.map((v, i) => ({ visit: v, before: v.actualMinutes - v.estimatedMinutes, after: v.actualMinutes - predicted[i]! }));
 }
 
 const mae = (errs: readonly number[]) => (errs.length ? roundMinutes(errs.reduce((s, e) => s + Math.abs(e), 0) / errs.length) : null);

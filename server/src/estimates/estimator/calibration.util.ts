@@ -284,16 +284,11 @@ function stats(errors: number[]): AccuracyStats {
 }
 
 /**
- * Estimated vs actual per cell: before = the table's estimate; after = the calibrated prediction
- * computed leaving the visit itself out (exact for both stages), so the report does not flatter the
- * model with visits it has already seen. Errors are actual − estimate, in minutes.
+ * Each visit's minutes as the calibration would have predicted them without that visit (leave-one-out):
+ * it leaves the cell's shrunk mean and its operator's, and the operator's other visits in the same cell
+ * see the cell without it. No input checks (callers check or trust their rows).
  */
-export function accuracyReport(
-  visits: readonly CompletedVisit[],
-  options: CalibrationOptions = calibrationOptions(),
-): CellAccuracy[] {
-  checkOptions(options);
-  checkVisits(visits);
+export function predictLeavingOneOut(visits: readonly CompletedVisit[], options: CalibrationOptions): number[] {
   const f = fit(visits, options);
   // Visits per (operator, cell), for the leave-one-out correction of the operator stage.
   const opCell = new Map<string, number>();
@@ -302,10 +297,7 @@ export function accuracyReport(
     const k = `${v.operatorId}|${f.keys[i]}`;
     opCell.set(k, (opCell.get(k) ?? 0) + 1);
   });
-
-  const before = new Map<string, number[]>();
-  const after = new Map<string, number[]>();
-  visits.forEach((v, i) => {
+  return visits.map((v, i) => {
     const k = f.keys[i]!;
     const n = f.cellCount.get(k)!;
     const cFull = f.cellEffect.get(k)!;
@@ -322,7 +314,27 @@ export function accuracyReport(
       const denom = nOp - 1 + options.operatorPseudoVisits;
       oLoo = denom > 0 ? sum / denom : 0;
     }
-    const predicted = v.estimatedMinutes * Math.exp(cLoo + oLoo);
+    return v.estimatedMinutes * Math.exp(cLoo + oLoo);
+  });
+}
+
+/**
+ * Estimated vs actual per cell: before = the table's estimate; after = the calibrated prediction
+ * computed leaving the visit itself out (exact for both stages), so the report does not flatter the
+ * model with visits it has already seen. Errors are actual − estimate, in minutes.
+ */
+export function accuracyReport(
+  visits: readonly CompletedVisit[],
+  options: CalibrationOptions = calibrationOptions(),
+): CellAccuracy[] {
+  checkOptions(options);
+  checkVisits(visits);
+  const predictions = predictLeavingOneOut(visits, options);
+  const before = new Map<string, number[]>();
+  const after = new Map<string, number[]>();
+  visits.forEach((v, i) => {
+    const k = cellKey(v);
+    const predicted = predictions[i]!;
     (before.get(k) ?? before.set(k, []).get(k)!).push(v.actualMinutes - v.estimatedMinutes);
     (after.get(k) ?? after.set(k, []).get(k)!).push(v.actualMinutes - predicted);
   });

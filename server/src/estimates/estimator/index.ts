@@ -36,6 +36,7 @@ export {
   calibrationOptions,
   bookedMinutes,
   accuracyReport,
+  predictLeavingOneOut,
   cellKey,
   clippedLogRatio,
   cellOutlierBound,
