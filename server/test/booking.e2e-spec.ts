@@ -226,6 +226,32 @@ describe('booking', () => {
     expect(back.status).toBe(409);
   });
 
+  it('a booked referral whose visits are all cancelled or missed goes back to planned (with the reason), and books again', async () => {
+    const desk = await t.as('frontdesk');
+    const day = plusDays(f.monday, 9);
+    const { caseId } = await f.newCase();
+    const booked = await desk.post('/api/appointments').send({ caseId, visits: [slot(day, '13:00', '14:00', f.chair2, opA), slot(plusDays(day, 7), '13:00', '14:00', f.chair2, opA)] });
+    expect(booked.status).toBe(201);
+    const [v1, v2] = booked.body.appointments;
+    const sheet = async () => (await desk.get(`/api/cases/${caseId}`)).body as { status: string; referralId: number };
+    const referral = async (id: number) => (await desk.get(`/api/referrals/${id}`)).body as { status: string; statusReason: string | null; history: { status: string; reason: string | null }[] };
+    const { referralId } = await sheet();
+    expect((await referral(referralId)).status).toBe('booked');
+    // One visit cancelled, one left: still booked.
+    expect((await desk.patch(`/api/appointments/${v1.id}`).send({ version: v1.version, state: 'cancelled', reason: 'patient travelling' })).status).toBe(200);
+    expect((await referral(referralId)).status).toBe('booked');
+    // The last one cancelled too: nothing is left, so it waits to be booked again (and the queue and backlog count it).
+    expect((await desk.patch(`/api/appointments/${v2.id}`).send({ version: v2.version, state: 'cancelled', reason: 'patient unwell' })).status).toBe(200);
+    const r = await referral(referralId);
+    expect(r).toMatchObject({ status: 'planned', statusReason: 'Its visit was cancelled and none is left; to be booked again' });
+    expect(r.history.at(-1)).toMatchObject({ status: 'planned', reason: 'Its visit was cancelled and none is left; to be booked again' });
+    expect((await sheet()).status).toBe('planned');
+    const again = await desk.post('/api/appointments').send({ caseId, visits: [slot(plusDays(day, 14), '13:00', '14:00', f.chair2, opA)] });
+    expect(again.status).toBe(201);
+    expect((await referral(referralId)).status).toBe('booked');
+    expect((await sheet()).status).toBe('booked');
+  });
+
   it('records the measured visit in the visit history on dismissal', async () => {
     const desk = await t.as('frontdesk');
     const { caseId } = await f.newCase({ tooth: '26' });

@@ -134,6 +134,21 @@ describe('reminder planning', () => {
     expect(await OutboxMessageRow.count({ where: { patientId: p.patientId, purpose: 'booking_email' } })).toBe(1);
   });
 
+  it('no text consent: texts wait at their own rule times, say why, and take no place under the caps', async () => {
+    const p = await reminderPatient(t, f.locationId, { phoneSuffix: 69, consent: false });
+    // Booked Tue 15 Dec 2026 09:00 EST (14:00Z) for Thu 17 Dec 08:00 EST = 13:00Z: inside the 48 h rule's lead time.
+    await bookAt('2026-12-15T14:00:00Z', p.caseId, [{ start: wall(NY, '2026-12-17', '08:00'), end: wall(NY, '2026-12-17', '09:00'), chairId: f.chair2, operatorId: f.operators[0]! }]);
+    const rows = await rowsOf(p.patientId);
+    const why = 'no text consent on file yet; it goes only if the patient agrees to texts before it is due';
+    // 48 h: its time is past, so at once (15 Dec 14:00Z), to be looked at by the composer then.
+    expect(rows['text-48h']!.status).toBe('pending');
+    expect(rows['text-48h']!.deferReason).toBe(`${why} (booked 47 hours before the visit: sent at once)`);
+    expect(at(rows['text-48h']!.dueAt)).toBe('2026-12-15T14:00:00.000Z');
+    // 24 h: Wed 16 Dec 13:00Z = 08:00 EST, not moved for the 48 h text (which never goes without consent).
+    expect(rows['text-24h']).toMatchObject({ status: 'pending', deferReason: why });
+    expect(at(rows['text-24h']!.dueAt)).toBe('2026-12-16T13:00:00.000Z');
+  });
+
   it('records a skipped booking e-mail when the patient has no address, and never plans twice', async () => {
     const p = await reminderPatient(t, f.locationId, { phoneSuffix: 66, email: null });
     const [a] = await bookAt('2026-12-14T15:00:00Z', p.caseId, [{ start: wall(NY, '2026-12-21', '09:00'), end: wall(NY, '2026-12-21', '10:00'), chairId: f.chair2, operatorId: f.operators[0]! }]);

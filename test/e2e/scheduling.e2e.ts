@@ -3,12 +3,13 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { apiAs } from '../support/api.js';
 import { baseUrl, launch, signIn } from '../support/browser.js';
 
-interface Sheet { id: number }
+interface Sheet { id: number; bookedMinutesPerVisit: number[] | null }
 interface Appointment { id: number; start: string; end: string; chairId: number; operatorId: number; visitIndex: number }
 
 describe('finding times, booking and the Chair board', () => {
   let browser: Browser;
   let molarCaseId: number;
+  let molarVisits: number;
   let incisorCaseId: number;
   beforeAll(async () => {
     browser = await launch();
@@ -28,12 +29,16 @@ describe('finding times, booking and the Chair board', () => {
     molarCaseId = ref.cases.find((c) => c.toothFdi === '37')!.id;
     incisorCaseId = ref.cases.find((c) => c.toothFdi === '11')!.id;
     // The endodontist's case sheet: a curved, calcified molar with a ledge (two visits, microscope).
-    await endo.patch<Sheet>(`/cases/${molarCaseId}`, { assessment: { canalVisibility: 'high' }, facts: { curvatureDegrees: 35, complications: ['ledge'] }, markPlanned: true });
+    const sheet = await endo.patch<Sheet>(`/cases/${molarCaseId}`, { assessment: { canalVisibility: 'high' }, facts: { curvatureDegrees: 35, complications: ['ledge'] }, markPlanned: true });
+    // Retreatment and high difficulty split it (estimator.md "two visits also when"); the demo's learned
+    // minutes may make one visit too long as well and add a third: the plan says how many.
+    molarVisits = sheet.bookedMinutesPerVisit!.length;
+    expect(molarVisits).toBeGreaterThanOrEqual(2);
     await endo.patch<Sheet>(`/cases/${incisorCaseId}`, { markPlanned: true });
   });
   afterAll(async () => browser?.close());
 
-  it('the front desk books the two-visit molar from the case sheet in three clicks, 7–21 days apart with the same endodontist', async () => {
+  it('the front desk books the molar’s visits (two or more) from the case sheet in three clicks, 7–21 days apart with the same endodontist', async () => {
     const page = await browser.newPage({ viewport: { width: 1400, height: 1000 } });
     await signIn(page, 'frontdesk@quillfern-endo.test');
     await page.goto(`${baseUrl()}/cases/${molarCaseId}`);
@@ -49,14 +54,16 @@ describe('finding times, booking and the Chair board', () => {
     const from = new Date(Date.now() - 86_400_000).toISOString();
     const to = new Date(Date.now() + 100 * 86_400_000).toISOString();
     const mine = (await desk.get<(Appointment & { caseId: number; microscopeId: number | null })[]>(`/appointments?from=${from}&to=${to}`)).filter((a) => a.caseId === molarCaseId);
-    expect(mine).toHaveLength(2);
-    const [v1, v2] = mine.sort((a, b) => a.visitIndex - b.visitIndex);
-    expect(v1.microscopeId).not.toBeNull();
-    expect(v2.microscopeId).not.toBeNull();
-    expect(v2.operatorId).toBe(v1.operatorId);
-    const days = (Date.parse(v2.start) - Date.parse(v1.start)) / 86_400_000;
-    expect(days).toBeGreaterThanOrEqual(6.5); // 7 calendar days at the location (a DST change moves the hour)
-    expect(days).toBeLessThanOrEqual(21.5);
+    expect(mine).toHaveLength(molarVisits);
+    const visits = mine.sort((a, b) => a.visitIndex - b.visitIndex);
+    for (const [i, v] of visits.entries()) {
+      expect(v.microscopeId).not.toBeNull();
+      expect(v.operatorId).toBe(visits[0]!.operatorId);
+      if (i === 0) continue;
+      const days = (Date.parse(v.start) - Date.parse(visits[i - 1]!.start)) / 86_400_000;
+      expect(days).toBeGreaterThanOrEqual(6.5); // 7 calendar days at the location (a DST change moves the hour)
+      expect(days).toBeLessThanOrEqual(21.5);
+    }
     await page.close();
   });
 

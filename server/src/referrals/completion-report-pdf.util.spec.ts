@@ -52,7 +52,9 @@ describe('completion report PDF', () => {
       'Three canals located (MB, ML, D), working lengths confirmed.',
       'Recall review due Thursday 6 May 2027',
       'Recall review due Saturday 6 November 2027',
-      'Endodontist: Dr. Imre Castellan',
+      // Who treated (from the visits) and who wrote the report, each on its own line.
+      'Endodontist',
+      'Report written by Dr. Imre Castellan',
       'Page 1 of 1',
     ]) {
       expect(text, line).toContain(line);

@@ -193,6 +193,9 @@ export function renderCompletionReportPdf(f: CompletionReportFacts, opts: { comp
   row('Procedure', capitalised(PROCEDURE_WORDS[f.procedure]));
   row('Referral received', shortDate(f.referralReceivedOn));
   row('Treatment ended', longDate(f.treatmentEndedOn));
+  // Who treated is read off the visits; who wrote the report is signed below (not always the same person).
+  const treatedBy = [...new Set(f.visits.map((v) => v.endodontist))];
+  if (treatedBy.length) row(treatedBy.length === 1 ? 'Endodontist' : 'Endodontists', treatedBy.join(', '));
 
   heading('Visits');
   f.visits.forEach((v, i) => {
@@ -210,7 +213,7 @@ export function renderCompletionReportPdf(f: CompletionReportFacts, opts: { comp
   if (f.completedBy) {
     roomFor(40);
     doc.moveDown(1.2);
-    w.write(`Endodontist: ${f.completedBy}`, { x: left, y: doc.y, width });
+    w.write(`Report written by ${f.completedBy}`, { x: left, y: doc.y, width });
   }
 
   // The caution and page numbers on every page, inside the bottom margin.

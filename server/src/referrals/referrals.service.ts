@@ -299,6 +299,26 @@ export class ReferralsService {
     else await this.sequelize.transaction(run);
   }
 
+  /**
+   * The one step back on the path: a booked referral whose visits were all cancelled or missed waits to be
+   * booked again (planned), so the queue and the backlog count it. Only the schedule calls this, inside
+   * the change that released the last visit; any other status is left as it is. Cases of the referral
+   * that were booked go back with it.
+   */
+  async returnToPlanned(practiceId: number, referralId: number, reason: string, opts: { actor: Actor; transaction: Transaction; at?: Date }): Promise<boolean> {
+    const { transaction } = opts;
+    const r = await this.referrals.findOne({ where: { id: referralId, practiceId }, lock: transaction.LOCK.UPDATE, transaction });
+    if (!r || r.status !== 'booked') return false;
+    const at = opts.at ?? new Date();
+    r.status = 'planned';
+    r.statusReason = reason;
+    r.statusChangedAt = at;
+    await r.save({ transaction });
+    await this.cases.update({ status: 'planned', updatedBy: opts.actor.id }, { where: { referralId, status: 'booked' }, individualHooks: true, transaction });
+    await this.events.create({ practiceId, referralId, status: 'planned', reason, byUserId: opts.actor.id, byName: opts.actor.name, at }, { transaction });
+    return true;
+  }
+
   async changeStatus(practiceId: number, actor: Actor, referralId: number, status: ReferralStatus, reason?: string | null): Promise<Referral> {
     await this.setStatus(practiceId, referralId, status, { actor, reason });
     return this.get(practiceId, referralId);

@@ -179,9 +179,9 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
       dueAt: ctx.now,
     };
     if (!to) return this.record(base, { skip: noAddress(rule.channel) }, ctx);
-    const plan = planReminder({ rule, visitStart: first.start, now: ctx.now, zone: patientZone(first), window: ctx.settings.quietHours, caps: ctx.settings.caps, texts: this.others(ctx, key) });
+    const plan = planReminder({ rule, visitStart: first.start, now: ctx.now, zone: patientZone(first), window: ctx.settings.quietHours, caps: ctx.settings.caps, texts: this.others(ctx, key, rule, first) });
     if (plan.kind === 'skip') return this.record({ ...base, plannedAt: plan.plannedAt }, { skip: plan.reason, timing: true }, ctx);
-    return this.record({ ...base, dueAt: plan.dueAt, plannedAt: plan.plannedAt, deferReason: plan.reason }, {}, ctx);
+    return this.record({ ...base, dueAt: plan.dueAt, plannedAt: plan.plannedAt, deferReason: withoutConsent(rule, first, plan.reason) }, {}, ctx);
   }
 
   private async planBeforeVisit(rule: ReminderRule, v: ReminderVisit, ctx: PlanContext): Promise<void> {
@@ -191,7 +191,7 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
       return;
     }
     const to = rule.channel === 'sms' ? v.patient.phone : v.patient.email;
-    const plan = planReminder({ rule, visitStart: v.start, now: ctx.now, zone: patientZone(v), window: ctx.settings.quietHours, caps: ctx.settings.caps, texts: this.others(ctx, key) });
+    const plan = planReminder({ rule, visitStart: v.start, now: ctx.now, zone: patientZone(v), window: ctx.settings.quietHours, caps: ctx.settings.caps, texts: this.others(ctx, key, rule, v) });
     const base: EnqueueInput = {
       practiceId: v.practiceId,
       channel: rule.channel,
@@ -209,10 +209,16 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
     };
     if (!to) return this.record(base, { skip: noAddress(rule.channel) }, ctx);
     if (plan.kind === 'skip') return this.record(base, { skip: plan.reason, timing: true }, ctx);
-    return this.record({ ...base, deferReason: plan.reason }, {}, ctx);
+    return this.record({ ...base, deferReason: withoutConsent(rule, v, plan.reason) }, {}, ctx);
   }
 
-  private others(ctx: PlanContext, key: string): Date[] {
+  /**
+   * The texts a new text is judged against (caps). A patient without text consent gets none, so the row
+   * waits at its rule's own time (quiet hours still apply) instead of being moved for texts that will
+   * never go; the composer looks at the consent again when it falls due.
+   */
+  private others(ctx: PlanContext, key: string, rule: ReminderRule, v: ReminderVisit): Date[] {
+    if (rule.channel === 'sms' && !v.patient.smsConsent) return [];
     return ctx.texts.filter((t) => t.dedupeKey !== key).map((t) => t.at);
   }
 
@@ -233,7 +239,8 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
       ctx.summary.skipped++;
       return;
     }
-    if (input.channel === 'sms') ctx.texts.push({ id: row.id, dedupeKey: input.dedupeKey ?? null, status: 'pending', at: input.dueAt });
+    // A text that will only go if consent comes first does not take a day's or a week's place.
+    if (input.channel === 'sms' && !input.deferReason?.startsWith(NO_CONSENT_YET)) ctx.texts.push({ id: row.id, dedupeKey: input.dedupeKey ?? null, status: 'pending', at: input.dueAt });
     ctx.summary.queued++;
   }
 
@@ -347,4 +354,13 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
     if (planned) this.logger.log(`sweep planned the reminders of ${planned} booking${planned === 1 ? '' : 's'} that lacked them`);
     return planned;
   }
+}
+
+const NO_CONSENT_YET = 'no text consent on file yet';
+
+/** The reason a text to a patient without consent waits: said plainly, with any move for quiet hours after it. */
+function withoutConsent(rule: ReminderRule, v: ReminderVisit, reason: string | null): string | null {
+  if (rule.channel !== 'sms' || v.patient.smsConsent) return reason;
+  const why = `${NO_CONSENT_YET}; it goes only if the patient agrees to texts before it is due`;
+  return (reason ? `${why} (${reason})` : why).slice(0, 255);
 }

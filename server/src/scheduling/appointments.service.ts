@@ -522,6 +522,7 @@ export class AppointmentsService {
         }
         await row.save({ transaction });
         if (dto.state === 'dismissed' && row.seatedAt) await this.recordDismissal(practiceId, row, transaction);
+        if (dto.state === 'cancelled' || dto.state === 'no_show') await this.releaseReferralIfEmpty(practiceId, row, actor, transaction);
         saved = row;
       },
     );
@@ -540,6 +541,17 @@ export class AppointmentsService {
       this.emit(APPOINTMENT_CHANGED, changed);
     }
     return this.get(practiceId, id);
+  }
+
+  /** The last live visit of a booked referral was cancelled or missed: the referral waits to be booked again. */
+  private async releaseReferralIfEmpty(practiceId: number, row: AppointmentRow, actor: Actor, transaction: Transaction) {
+    const [live] = await this.sequelize.query<{ n: number | string }>(
+      "SELECT COUNT(*) AS n FROM appointments WHERE practice_id = :practiceId AND referral_id = :referralId AND state NOT IN ('cancelled', 'no_show')",
+      { replacements: { practiceId, referralId: row.referralId }, type: QueryTypes.SELECT, transaction },
+    );
+    if (Number(live?.n ?? 0) > 0) return;
+    const why = row.state === 'no_show' ? 'missed' : 'cancelled';
+    await this.referrals.returnToPlanned(practiceId, row.referralId, `Its visit was ${why} and none is left; to be booked again`, { actor, transaction });
   }
 
   /** Listeners run after the commit; one that throws is logged by the emitter and never undoes the change. */

@@ -151,8 +151,10 @@ describe('generateHistory', () => {
     }
     const statuses = new Set(h.referrals.map((r) => r.status));
     for (const s of ['received', 'triaged', 'planned', 'completed', 'report_sent', 'declined', 'cancelled']) expect(statuses, s).toContain(s);
+    // One number per patient, so a reply or a STOP belongs to one person.
+    expect(new Set(h.patients.map((p) => p.phone)).size).toBe(Math.min(h.patients.length, 1000));
     for (const p of h.patients) {
-      expect(p.phone).toMatch(/^\+1202555(01\d\d)$/); // references.md: 555-0100…0199 are fictional
+      expect(p.phone).toMatch(/^\+1[2-9]\d\d555(01\d\d)$/); // references.md: 555-0100…0199 are fictional (in any area code)
       expect(p.email).toMatch(/@example\.com$/);
     }
     const levels = new Set(h.cases.map((c) => c.estimate?.level ?? 'untriaged'));

@@ -13,6 +13,8 @@ import { intersectIntervals } from '../scheduling/time-finder/interval.util.js';
 import type { Interval } from '../scheduling/time-finder/time-finder.types.js';
 import { clockFor, closedDays, DAY_MS, formatLocalDate, MINUTE_MS, openOnDay, wallRangeOnDay, type LocalDay, type ReportWorkingRule, type ZoneClock } from '../reports/report-time.util.js';
 
+const PATIENT_AREA_CODES = ['212', '303', '312', '404', '415', '503', '617', '702', '718', '808'];
+
 const HOUR = 3_600_000;
 const GRID = 5 * MINUTE_MS;
 
@@ -205,7 +207,10 @@ export function generateHistory(input: HistoryInput): History {
     const y = int(1948, 2004);
     const dob = `${y}-${String(int(1, 12)).padStart(2, '0')}-${String(int(1, 28)).padStart(2, '0')}`;
     const handle = `${firstName}.${lastName}`.toLowerCase().replace(/[^a-z.]/g, '');
-    out.patients.push({ firstName, lastName, dateOfBirth: dob, phone: `+1202555${String(100 + int(0, 99)).slice(-3).padStart(4, '0')}`, email: `${handle}@example.com`, smsConsent: chance(0.85) });
+    // One number per patient: the fictional 555-0100…0199 lines across several area codes (the practice's own are in 202).
+    const n = out.patients.length;
+    const phone = `+1${PATIENT_AREA_CODES[Math.floor(n / 100) % PATIENT_AREA_CODES.length]}5550${100 + (n % 100)}`;
+    out.patients.push({ firstName, lastName, dateOfBirth: dob, phone, email: `${handle}@example.com`, smsConsent: chance(0.85) });
     return out.patients.length - 1;
   };
   const weights = input.dentistIds.map((_, i) => 1 / (i + 1.5));
@@ -560,7 +565,14 @@ export function generateHistory(input: HistoryInput): History {
       r.events.push({ status: 'completed', at: end + 20 * MINUTE_MS, reason: null });
       if (chance(0.6)) r.events.push({ status: 'report_sent', at: Math.min(input.now - HOUR, end + between(1, 3) * DAY_MS), reason: null });
     } else if ((appts[appts.length - 1]?.start ?? 0) > input.now - 10 * DAY_MS) {
-      // Missed or cancelled in the last days: still to be booked again by the front desk.
+      // Missed or cancelled in the last days: still to be booked again by the front desk. With no visit
+      // left, the referral is back at planned, as the schedule does when its last visit goes.
+      const last = appts[appts.length - 1]!;
+      const live = appts.some((a) => a.state !== 'cancelled' && a.state !== 'no_show');
+      if (!live && r.events[r.events.length - 1]?.status === 'booked') {
+        const why = last.state === 'no_show' ? 'missed' : 'cancelled';
+        r.events.push({ status: 'planned', at: Math.min(input.now - HOUR, last.cancelledAt ?? last.end), reason: `Its visit was ${why} and none is left; to be booked again` });
+      }
     } else {
       const last = appts[appts.length - 1]!;
       const reason = 'Did not come back after a missed or cancelled visit; the referring dentist was told';
