@@ -85,6 +85,19 @@ describe('case sheets', () => {
     expect(ref.body.status).toBe('planned');
   });
 
+  it('a booked case keeps its status when its sheet is saved again (markPlanned only plans cases not yet booked)', async () => {
+    const desk = await t.as('frontdesk');
+    const found = await desk.post('/api/time-finder').send({ caseId: incisorCaseId });
+    expect(found.status, JSON.stringify(found.body)).toBe(200);
+    const booked = await desk.post('/api/appointments').send({ caseId: incisorCaseId, visits: found.body.proposals[0].visits });
+    expect(booked.status, JSON.stringify(booked.body)).toBe(201);
+    const endo = await t.as('endodontist');
+    const res = await endo.patch(`/api/cases/${incisorCaseId}`).send({ canals: 1, markPlanned: true });
+    expect(res.status, JSON.stringify(res.body)).toBe(200);
+    expect(res.body.status).toBe('booked');
+    expect((await endo.get(`/api/referrals/${referralId}`)).body.status).toBe('booked');
+  });
+
   it('names the field of a bad assessment and keeps the stored sheet', async () => {
     const endo = await t.as('endodontist');
     const res = await endo.patch(`/api/cases/${incisorCaseId}`).send({ assessment: { sparkle: 'high' } });

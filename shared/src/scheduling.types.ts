@@ -229,3 +229,7 @@ export interface WaitlistEntry extends WaitlistEntryInput {
   /** Only in GET /api/waitlist/fits: where the first visit would go in the freed time. */
   fit?: ProposedVisitSlot;
 }
+
+/** How a visit's confirmation came in, in the front desk's words (appointments.confirmed_via). */
+export const CONFIRMED_VIA_LABELS: Record<string, string> = { sms: 'text reply', link: 'the visit page link', desk: 'the front desk', email: 'e-mail' };
+export const confirmedViaLabel = (via: string) => CONFIRMED_VIA_LABELS[via] ?? via;

@@ -42,6 +42,8 @@ export class CaseSheetsService {
       operatorId: dto.operatorId === undefined ? (current.operatorId ?? undefined) : (dto.operatorId ?? undefined),
     };
     const est = await this.estimates.estimateFor(user.practiceId, inputs);
+    // Only a case not yet booked becomes planned; a booked or started one keeps its status when its sheet changes.
+    const marksPlanned = !!dto.markPlanned && ['received', 'triaged', 'planned'].includes(current.status);
     let override = (current.override as CaseOverride | null) ?? null;
     if (dto.override === null) override = null;
     else if (dto.override) {
@@ -69,9 +71,9 @@ export class CaseSheetsService {
       visitCount: est.visits.length,
       override: override as unknown as Record<string, unknown> | null,
       updatedBy: user.id,
-      ...(dto.markPlanned ? { status: 'planned' as const } : {}),
+      ...(marksPlanned ? { status: 'planned' as const } : {}),
     });
-    if (dto.markPlanned) await this.advanceReferral(user, current.referralId);
+    if (marksPlanned) await this.advanceReferral(user, current.referralId);
     return this.get(user.practiceId, caseId);
   }
 

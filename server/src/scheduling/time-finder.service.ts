@@ -96,11 +96,11 @@ export class TimeFinderService {
         'SELECT location_id, DATE_FORMAT(date, "%Y-%m-%d") AS date, reason FROM location_closures WHERE practice_id = :practiceId AND date BETWEEN DATE(:from) - INTERVAL 1 DAY AND DATE(:to) + INTERVAL 1 DAY',
         p,
       ),
-      this.select<{ id: number; location_id: number; fixed_microscope_id: number | null }>(
-        'SELECT id, location_id, fixed_microscope_id FROM chairs WHERE practice_id = :practiceId AND active = 1',
+      this.select<{ id: number; name: string; location_id: number; fixed_microscope_id: number | null }>(
+        'SELECT id, name, location_id, fixed_microscope_id FROM chairs WHERE practice_id = :practiceId AND active = 1',
         p,
       ),
-      this.select<{ id: number; location_id: number; mobile: number | boolean }>('SELECT id, location_id, mobile FROM microscopes WHERE practice_id = :practiceId AND active = 1', p),
+      this.select<{ id: number; name: string; location_id: number; mobile: number | boolean }>('SELECT id, name, location_id, mobile FROM microscopes WHERE practice_id = :practiceId AND active = 1', p),
       this.select<{ id: number; name: string }>("SELECT id, name FROM users WHERE practice_id = :practiceId AND role = 'endodontist' AND active = 1", p),
       this.select<{ operator_id: number; location_id: number; rrule: string; start_local: string; end_local: string; breaks: Json<{ start: string; end: string }[]> | null }>(
         'SELECT operator_id, location_id, rrule, start_local, end_local, breaks FROM working_rules WHERE practice_id = :practiceId',
@@ -127,12 +127,13 @@ export class TimeFinderService {
     });
     const finderChairs: Chair[] = chairs.map((c) => ({
       id: String(c.id),
+      name: c.name,
       locationId: String(c.location_id),
       ...(c.fixed_microscope_id !== null ? { fixedMicroscopeId: String(c.fixed_microscope_id) } : {}),
     }));
     const finderMicroscopes: Microscope[] = microscopes.map((m) => {
       const chairId = fixedChairOf.get(m.id);
-      return { id: String(m.id), locationId: String(m.location_id), mobile: !!m.mobile, ...(chairId !== undefined ? { chairId: String(chairId) } : {}) };
+      return { id: String(m.id), name: m.name, locationId: String(m.location_id), mobile: !!m.mobile, ...(chairId !== undefined ? { chairId: String(chairId) } : {}) };
     });
     const finderOperators: Operator[] = operators.map((o) => ({
       id: String(o.id),

@@ -36,12 +36,16 @@ export interface Location {
 
 export interface Chair {
   id: string;
+  /** What the explanations call it (else "chair <id>"). */
+  name?: string;
   locationId: string;
   fixedMicroscopeId?: string;
 }
 
 export interface Microscope {
   id: string;
+  /** What the explanations call it (else "microscope <id>"). */
+  name?: string;
   locationId: string;
   /** Mobile microscopes serve any chair of their location; fixed ones only their chair. */
   mobile: boolean;

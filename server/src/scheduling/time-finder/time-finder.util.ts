@@ -632,8 +632,8 @@ function describe(search: Search, selected: Selected[], index: number, matchingC
   series.forEach((p, k) => {
     const q = qualities[k];
     const visitZone = p.combo.loc.location.timeZone;
-    const mic = p.combo.microscope === undefined ? '' : `, microscope ${p.combo.microscope.id} (${p.combo.microscopeFixed ? 'fixed to the chair' : 'mobile'})`;
-    const head = `visit ${k + 1}: ${formatLocal(p.start, visitZone, 'ccc yyyy-MM-dd HH:mm')}–${formatLocal(p.end, visitZone, 'HH:mm')}, chair ${p.combo.chair.id}, ${p.combo.op.operator.name}${mic}`;
+    const mic = p.combo.microscope === undefined ? '' : `, ${p.combo.microscope.name ?? `microscope ${p.combo.microscope.id}`} (${p.combo.microscopeFixed ? 'fixed to the chair' : 'mobile'})`;
+    const head = `visit ${k + 1}: ${formatLocal(p.start, visitZone, 'ccc d LLL yyyy, HH:mm')}–${formatLocal(p.end, visitZone, 'HH:mm')}, ${p.combo.chair.name ?? `chair ${p.combo.chair.id}`}, ${p.combo.op.operator.name}${mic}`;
     reasons.push(`${head}; ${fitText(q, s.minUsefulGapMs)}`);
     for (const g of [q.gapBefore, q.gapAfter]) if (g > 0 && g < smallestGap) smallestGap = g;
     if (k > 0) {

@@ -12,7 +12,7 @@ export const completionQuery = (caseId: number) =>
     queryKey: completionKeys.detail(caseId),
     queryFn: ({ signal }) => api<CaseCompletionView>(`/cases/${caseId}/completion`, { signal }),
     // A queued report becomes sent (or failed) a moment later; ask again while one is on its way.
-    refetchInterval: (q) => (q.state.data?.completion?.report?.status === 'queued' ? 5_000 : false),
+    refetchInterval: (q) => (q.state.data?.completion?.report?.status === 'queued' ? 2_000 : false),
   });
 
 export const useCompletion = (caseId: number) => useQuery(completionQuery(caseId));

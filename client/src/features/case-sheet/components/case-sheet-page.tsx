@@ -20,6 +20,10 @@ import { EstimateCard } from './estimate-card';
 import { OverrideEditor } from './override-editor';
 import { FindTimesButton } from '../../time-finder/components/find-times-button';
 
+/** A sheet is saved as planned only before booking; closed cases are read-only (the server refuses changes). */
+const BEFORE_BOOKING: string[] = ['received', 'triaged', 'planned'];
+const CLOSED_STATUSES: string[] = ['completed', 'report_sent', 'declined', 'cancelled'];
+
 const procedureOptions = PROCEDURES.map((p) => ({ value: p, label: PROCEDURE_LABELS[p] }));
 const date = (iso: string) => new Date(iso.length === 10 ? `${iso}T00:00:00` : iso).toLocaleDateString([], { dateStyle: 'medium' });
 const when = (iso: string) => new Date(iso).toLocaleString([], { dateStyle: 'medium', timeStyle: 'short' });
@@ -137,9 +141,11 @@ function CaseSheetEditor({ sheet, factors }: { sheet: CaseSheet; factors: Factor
               Unsaved changes
             </Text>
           )}
-          <Button leftSection={<IconDeviceFloppy size={16} />} onClick={onSave} loading={save.isPending} disabled={!valid}>
-            Save and mark planned
-          </Button>
+          {!CLOSED_STATUSES.includes(sheet.status) && (
+            <Button leftSection={<IconDeviceFloppy size={16} />} onClick={onSave} loading={save.isPending} disabled={!valid}>
+              {BEFORE_BOOKING.includes(sheet.status) ? 'Save and mark planned' : 'Save'}
+            </Button>
+          )}
           {sheet.estimate && !dirty && ['planned', 'triaged', 'received'].includes(sheet.status) && <FindTimesButton caseId={sheet.id} variant="light" />}
         </Group>
       </Group>

@@ -1,5 +1,5 @@
 import { Anchor, Badge, Button, Divider, Drawer, Group, NumberInput, Select, Stack, Table, Text, Textarea, TextInput } from '@mantine/core';
-import { formatTooth, type Appointment, type AppointmentState, type ChairSummary } from '@ostium/shared';
+import { confirmedViaLabel, formatTooth, type Appointment, type AppointmentState, type ChairSummary } from '@ostium/shared';
 import { IconMicroscope } from '@tabler/icons-react';
 import { DateTime } from 'luxon';
 import { useEffect, useState } from 'react';
@@ -54,13 +54,13 @@ function DrawerBody({ a, lookup, chairs, gridMinutes, problem, pending, onApply 
     ['When', `${localDay(a.start, zone)}, ${localTime(a.start, zone)}–${localTime(a.end, zone)} (${minutesBetween(a.start, a.end)} min)`],
     ['Tooth', tooth],
     ['Procedure', PROCEDURE_LABELS[a.procedure]],
-    ['Visit', `${a.visitIndex + 1}${a.seriesId ? ` of series ${a.seriesId.slice(0, 8)}` : ''}`],
+    ['Visit', String(a.visitIndex + 1)],
     ['Chair', lookup.chairs.get(a.chairId)?.name ?? `#${a.chairId}`],
     ['Endodontist', lookup.operators.get(a.operatorId) ?? `#${a.operatorId}`],
     ['Microscope', microscope ?? 'None'],
     ['Turnover after', `${a.turnoverMinutes} min`],
   ];
-  if (a.confirmedAt) rows.push(['Confirmed', `${DateTime.fromISO(a.confirmedAt, { zone }).toFormat('d LLL, HH:mm')}${a.confirmedVia ? ` by ${a.confirmedVia}` : ''}`]);
+  if (a.confirmedAt) rows.push(['Confirmed', `${DateTime.fromISO(a.confirmedAt, { zone }).toFormat('d LLL, HH:mm')}${a.confirmedVia ? ` by ${confirmedViaLabel(a.confirmedVia)}` : ''}`]);
   if (a.seatedAt) rows.push(['Seated', localTime(a.seatedAt, zone)]);
   if (a.dismissedAt) rows.push(['Dismissed', localTime(a.dismissedAt, zone)]);
   if (a.cancellation) rows.push(['Cancelled', `${a.cancellation.reason} (${a.cancellation.noticeHours} h notice${a.cancellation.byName ? `, ${a.cancellation.byName}` : ''})`]);
