@@ -306,6 +306,8 @@ describe('inbound texts: keywords and their effects', () => {
       expect((await patientRow(parent.patientId)).sms_consent).toBe(0);
       expect((await patientRow(child.patientId)).sms_consent).toBe(0);
       expect(await outTo(parent.phone)).toHaveLength(1);
+      // The thread says that the one STOP changed both patients.
+      expect((await inboundRows(parent.phone))[1]!.effect).toMatch(/^Texts stopped \(replied STOP\) for all 2 patients who gave this number(; \d+ pending texts? cancelled)?; acknowledged once$/);
     });
 
     it('matches the sender in any form the provider writes the number', async () => {

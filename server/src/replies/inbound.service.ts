@@ -316,7 +316,9 @@ export class InboundService {
     );
     const pending = cancelled ? `; ${cancelled} pending text${cancelled === 1 ? '' : 's'} cancelled` : '';
     const [previous] = await this.sequelize.query<{ kind: string }>(
-      `SELECT kind FROM inbound_messages WHERE practice_id = :practiceId AND from_address = :address AND kind IN ('opt_out', 'opt_in') AND id < :id ORDER BY id DESC LIMIT 1`,
+      // Any other keyword row, not only earlier ids: of two STOPs at once the later-numbered one may take
+      // the patients' lock first, and the other must then see it (committed) as the opt-out already made.
+      `SELECT kind FROM inbound_messages WHERE practice_id = :practiceId AND from_address = :address AND kind IN ('opt_out', 'opt_in') AND id <> :id ORDER BY id DESC LIMIT 1`,
       { replacements: { practiceId: s.practiceId, address: row.fromAddress, id: row.id }, type: QueryTypes.SELECT, transaction },
     );
     if (!hadConsent && previous?.kind === 'opt_out') {
@@ -324,7 +326,7 @@ export class InboundService {
     }
     const p = await this.context.practice(s.practiceId);
     await this.reply(s, row, optOutAck(p.name), now, transaction);
-    return { effect: `Texts stopped (replied ${word})${pending}; acknowledged once`, handled: true };
+    return { effect: `Texts stopped (replied ${word})${sharedBy(locked.length)}${pending}; acknowledged once`, handled: true };
   }
 
   /** START: consent back for the patients who gave this number, and a one-line acknowledgement. */
@@ -342,7 +344,7 @@ export class InboundService {
     if (!changed) return { effect: `Replied ${word}: texts were already on; no reply sent`, handled: true };
     const p = await this.context.practice(s.practiceId);
     await this.reply(s, row, optInAck(p.name), now, transaction);
-    return { effect: `Texts on again (replied ${word}); acknowledged`, handled: true };
+    return { effect: `Texts on again (replied ${word})${sharedBy(changed)}; acknowledged`, handled: true };
   }
 
   private async acceptOffer(s: Sender, row: InboundMessageRow, now: Date, transaction: Transaction): Promise<Outcome> {
@@ -387,4 +389,9 @@ export class InboundService {
     }
     return { effect: 'No patient gave this number; left in the inbox (the open task for this sender stands)', handled: false };
   }
+}
+
+/** A number several patients gave (a family's phone): the desk sees that the keyword changed them all. */
+function sharedBy(patients: number): string {
+  return patients > 1 ? ` for all ${patients} patients who gave this number` : '';
 }
