@@ -4,8 +4,9 @@ import { notifications } from '@mantine/notifications';
 import { LEVELS, PROCEDURES, TOOTH_GROUPS, type EstimateTable, type EstimateTableInfo, type Level } from '@ostium/shared';
 import { IconDeviceFloppy } from '@tabler/icons-react';
 import { useQuery } from '@tanstack/react-query';
-import { useState, type ReactNode } from 'react';
+import { useState } from 'react';
 import { PageHeader } from '../../../components/page-header';
+import { SettingsSection as Section } from '../../../components/settings-section';
 import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
 import { usersQuery } from '../../users/api/users';
@@ -65,26 +66,6 @@ function NumField({ form, path, label, hiddenLabel = false, unit, step = 1, deci
   );
 }
 
-function Section({ title, hint, error, children }: { title: string; hint?: ReactNode; error?: ReactNode; children: ReactNode }) {
-  return (
-    <Card p="md" component="section" aria-label={title}>
-      <Title order={3} fz="sm" mb={2}>
-        {title}
-      </Title>
-      {hint && (
-        <Text fz="xs" c="dimmed" mb="sm">
-          {hint}
-        </Text>
-      )}
-      {children}
-      {error && (
-        <Text fz="xs" c="red.7" mt="xs" role="alert">
-          {error}
-        </Text>
-      )}
-    </Card>
-  );
-}
 
 // Paths the grid shows a field for; a server error elsewhere goes in the banner.
 const SECTION_ERRORS = ['tierMultiplier', 'interval', 'calibration', 'recall.months'];

@@ -1,12 +1,13 @@
-import { Alert, Badge, Button, Card, Grid, Group, NumberInput, SimpleGrid, Stack, Text, Title } from '@mantine/core';
+import { Alert, Badge, Button, Grid, Group, NumberInput, SimpleGrid, Stack, Text } from '@mantine/core';
 import { TimeInput } from '@mantine/dates';
 import { useForm, type UseFormReturnType } from '@mantine/form';
 import { notifications } from '@mantine/notifications';
 import type { ReminderSettings, ReminderSettingsResponse } from '@ostium/shared';
 import { IconDeviceFloppy, IconRefresh, IconShieldLock } from '@tabler/icons-react';
 import { DateTime } from 'luxon';
-import { useState, type ReactNode } from 'react';
+import { useState } from 'react';
 import { PageHeader } from '../../../components/page-header';
+import { SettingsSection as Section } from '../../../components/settings-section';
 import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
 import { useLocations } from '../../practice/api/practice';
@@ -28,21 +29,6 @@ export function ReminderSettingsPage() {
   );
 }
 
-function Section({ title, hint, children }: { title: string; hint?: ReactNode; children: ReactNode }) {
-  return (
-    <Card p="md" component="section" aria-label={title}>
-      <Title order={3} fz="sm" mb={2}>
-        {title}
-      </Title>
-      {hint && (
-        <Text fz="xs" c="dimmed" mb="sm">
-          {hint}
-        </Text>
-      )}
-      {children}
-    </Card>
-  );
-}
 
 function SettingsEditor({ data, onReload }: { data: ReminderSettingsResponse; onReload: () => void }) {
   const save = useSaveReminderSettings();
