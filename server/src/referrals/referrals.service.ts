@@ -11,6 +11,7 @@ import {
 } from '@ostium/shared';
 import { col, fn, literal, Op, type Order, type Transaction, type WhereOptions } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
+import { retryOnDeadlock } from '../database/deadlock-retry.util.js';
 import { AttachmentsService } from '../attachments/attachments.service.js';
 import { mapPatient, PatientsService } from '../patients/patients.service.js';
 import { PatientRow } from '../patients/models/patient.model.js';
@@ -114,7 +115,8 @@ export class ReferralsService {
     if (errors.length) throw new BadRequestException({ message: errors.map((e) => `${e.field}: ${e.message}`).join('; '), errors });
 
     const now = opts.at ?? new Date();
-    const id = await this.sequelize.transaction(async (transaction) => {
+    // Many referrals entered at once insert into the same tables and indexes: a deadlock victim runs again.
+    const id = await retryOnDeadlock(() => this.sequelize.transaction(async (transaction) => {
       const location = await this.locations.findOne({ where: { id: dto.locationId, practiceId }, transaction });
       if (!location) throw new BadRequestException({ message: `Location ${dto.locationId} not found`, errors: [{ field: 'locationId', message: 'does not exist' }] });
       const today = todayIn(location.timeZone, now);
@@ -172,7 +174,7 @@ export class ReferralsService {
         await this.letters.queueAcknowledgement(practiceId, referral.id, { name: dentist.name, email: dentist.email, letterChannel: dentist.letterChannel }, { at: now, createdBy: actor.id, transaction });
       }
       return referral.id;
-    });
+    }));
     return this.get(practiceId, id);
   }
 

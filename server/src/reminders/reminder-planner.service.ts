@@ -5,6 +5,7 @@ import { Interval } from '@nestjs/schedule';
 import type { MessageChannel, ReminderRule, ReminderSettings } from '@ostium/shared';
 import { Op, type Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
+import { retryOnDeadlock } from '../database/deadlock-retry.util.js';
 import { APP_CONFIG, type AppConfig } from '../config/configuration.js';
 import type { EnqueueInput } from '../messaging/composer.types.js';
 import { MessagingClock } from '../messaging/messaging-clock.service.js';
@@ -44,8 +45,6 @@ interface PlanContext {
 }
 
 const emptySummary = (): PlanSummary => ({ queued: 0, skipped: 0, existing: 0 });
-const ER_LOCK_DEADLOCK = 1213; // also what a Galera certification failure looks like
-const isDeadlock = (e: unknown) => (e as { parent?: { errno?: number } }).parent?.errno === ER_LOCK_DEADLOCK;
 const before = (rules: ReminderRule[]) => rules.filter((r) => r.enabled && r.trigger === 'before_visit');
 const onBooking = (rules: ReminderRule[]) => rules.filter((r) => r.enabled && r.trigger === 'on_booking');
 const noAddress = (channel: MessageChannel) => (channel === 'sms' ? 'no mobile number on file' : 'no e-mail address on file');
@@ -148,12 +147,7 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
 
   /** One transaction, tried once more after a deadlock (two plans touching neighbouring outbox keys). */
   private async inTransaction(work: (t: Transaction) => Promise<void>): Promise<void> {
-    try {
-      await this.sequelize.transaction(work);
-    } catch (e) {
-      if (!isDeadlock(e)) throw e;
-      await this.sequelize.transaction(work);
-    }
+    await retryOnDeadlock(() => this.sequelize.transaction(work), 2);
   }
 
   private async planOnBooking(rule: ReminderRule, ahead: ReminderVisit[], ctx: PlanContext): Promise<void> {

@@ -1,7 +1,7 @@
 import { ArgumentsHost, Catch, ExceptionFilter, HttpException, HttpStatus, Logger } from '@nestjs/common';
 import type { ApiErrorBody } from '@ostium/shared';
 import type { Response } from 'express';
-import { BaseError, ForeignKeyConstraintError, UniqueConstraintError, ValidationError as SqlValidationError } from 'sequelize';
+import { BaseError, ConnectionAcquireTimeoutError, ForeignKeyConstraintError, UniqueConstraintError, ValidationError as SqlValidationError } from 'sequelize';
 
 /** Turns every error into `{statusCode, message, errors?}`; unknown errors become a 500 without internals. */
 @Catch()
@@ -42,6 +42,10 @@ export class ApiExceptionFilter implements ExceptionFilter {
     if (exception instanceof SqlValidationError) {
       const errors = exception.errors.map((e) => ({ field: e.path ?? 'unknown', message: e.message }));
       return { statusCode: HttpStatus.BAD_REQUEST, message: errors.map((e) => `${e.field}: ${e.message}`).join('; '), errors };
+    }
+    if (exception instanceof ConnectionAcquireTimeoutError) {
+      // Every database connection stayed busy for the whole wait: an overload, not a fault of the request.
+      return { statusCode: HttpStatus.SERVICE_UNAVAILABLE, message: 'The server is busy right now; try again shortly' };
     }
     if (exception instanceof BaseError && /ECONNREFUSED|connect|pool/i.test(exception.message)) {
       return { statusCode: HttpStatus.SERVICE_UNAVAILABLE, message: 'The database is not reachable right now; try again shortly' };
