@@ -560,8 +560,11 @@ export function generateHistory(input: HistoryInput): History {
     }
     if (!r.events.length) setReferralChain(cs.referral, appts[0]!.createdAt - DAY_MS, appts[0]!.createdAt);
     if (done.length) r.events.push({ status: 'in_treatment', at: done[0]!.seatedAt!, reason: null });
-    if (!cs.open && done.length) {
-      const end = done[done.length - 1]!.dismissedAt!;
+    const lastEnd = done.length ? done[done.length - 1]!.dismissedAt! : 0;
+    if (!cs.open && done.length && lastEnd > input.now - 3 * DAY_MS) {
+      // Treated in the last days: the endodontist has yet to write it up (Finish treatment on the case sheet).
+    } else if (!cs.open && done.length) {
+      const end = lastEnd;
       r.events.push({ status: 'completed', at: end + 20 * MINUTE_MS, reason: null });
       if (chance(0.6)) r.events.push({ status: 'report_sent', at: Math.min(input.now - HOUR, end + between(1, 3) * DAY_MS), reason: null });
     } else if ((appts[appts.length - 1]?.start ?? 0) > input.now - 10 * DAY_MS) {
