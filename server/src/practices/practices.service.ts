@@ -1,5 +1,6 @@
 import { Injectable, NotFoundException } from '@nestjs/common';
 import { InjectModel } from '@nestjs/sequelize';
+import type { Transaction } from 'sequelize';
 import type { LocationSummary, OpeningHours, PracticeSettings, PracticeSummary } from '@ostium/shared';
 import { Chair } from './models/chair.model.js';
 import { Location } from './models/location.model.js';
@@ -41,8 +42,9 @@ export class PracticesService {
     @InjectModel(Microscope) private readonly microscopes: typeof Microscope,
   ) {}
 
-  async get(practiceId: number): Promise<PracticeSummary> {
-    const p = await this.practices.findByPk(practiceId);
+  /** Pass the caller's transaction when inside one: a read on a second connection could wait on a pool its own transaction holds. */
+  async get(practiceId: number, transaction?: Transaction): Promise<PracticeSummary> {
+    const p = await this.practices.findByPk(practiceId, { transaction });
     if (!p) throw new NotFoundException('Practice not found');
     return mapPractice(p);
   }

@@ -6,8 +6,6 @@ import { Sequelize } from 'sequelize-typescript';
 import { requestContext } from '../common/context/request-context.js';
 import { APP_CONFIG, type AppConfig } from '../config/configuration.js';
 import { OUTBOX_FAILED, type OutboxFailedEvent } from '../messaging/messaging-events.js';
-import { APPOINTMENTS_BOOKED, type AppointmentsBookedEvent } from '../scheduling/appointment-events.js';
-import { bookingNoticeSubject } from './booking-notice-letter.util.js';
 import { CompletionService } from './completion.service.js';
 import { letterOutcome } from './letter-outcome.util.js';
 import { LettersService } from './letters.service.js';
@@ -21,8 +19,8 @@ const BATCH = 100;
  *   recorded on it; a sent completion report moves its case (and referral) to report_sent. Derived from
  *   the database, so nothing is lost with a process: the interval runs beside the outbox job (same
  *   switch and period), OUTBOX_FAILED settles a failed letter at once, and a row lock settles each once.
- * - the booking notice on a referral's first booking (APPOINTMENTS_BOOKED with firstBooking), once per
- *   referral by the letter's dedupe key.
+ * The booking notice is queued by the schedule inside the booking's transaction (LettersService), so a crash
+ * after the commit cannot lose it; once per referral by the letter's dedupe key.
  */
 @Injectable()
 export class LetterJobsService implements OnApplicationBootstrap, OnModuleDestroy {
@@ -97,31 +95,8 @@ export class LetterJobsService implements OnApplicationBootstrap, OnModuleDestro
     }
   }
 
-  @OnEvent(APPOINTMENTS_BOOKED)
-  async onBooked(e: AppointmentsBookedEvent): Promise<void> {
-    if (!e.firstBooking) return;
-    try {
-      await this.queueBookingNotice(e.practiceId, e.referralId, e.caseId, e.actorId, e.at);
-    } catch (err) {
-      this.logger.error(`booking notice for referral ${e.referralId} not queued: ${(err as Error).message}`);
-    }
-  }
-
-  /** The booking notice of a referral, at most once (dedupe key `booking_notice:<referralId>`). */
-  async queueBookingNotice(practiceId: number, referralId: number, caseId: number, actorId: number | null, at = new Date()): Promise<boolean> {
-    const p = await this.letters.parties(practiceId, referralId);
-    if (!p) return false;
-    const { created } = await this.letters.queue({
-      practiceId,
-      referralId,
-      caseId,
-      kind: 'booking_notice',
-      dedupeKey: `booking_notice:${referralId}`,
-      dentist: p.dentist,
-      subject: bookingNoticeSubject(p.practice.name),
-      at,
-      createdBy: actorId,
-    });
-    return created;
+  /** The booking notice, at most once per referral (the schedule queues it inside the booking itself). */
+  queueBookingNotice(practiceId: number, referralId: number, caseId: number, actorId: number | null, at = new Date()): Promise<boolean> {
+    return this.letters.queueBookingNotice(practiceId, referralId, caseId, actorId, at);
   }
 }

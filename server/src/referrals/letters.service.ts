@@ -8,6 +8,7 @@ import { PatientRow } from '../patients/models/patient.model.js';
 import { Location } from '../practices/models/location.model.js';
 import { PracticesService } from '../practices/practices.service.js';
 import { ReferringDentistRow } from '../referring-dentists/models/referring-dentist.model.js';
+import { bookingNoticeSubject } from './booking-notice-letter.util.js';
 import { acknowledgementSubject } from './acknowledgement-letter.util.js';
 import { letterOutcome, queuedDetail, type LetterOutcome, type OutboxState } from './letter-outcome.util.js';
 import { LetterRow } from './models/letter.model.js';
@@ -169,7 +170,7 @@ export class LettersService {
     dentist: QueueLetterInput['dentist'],
     opts: { at: Date; createdBy: number | null; transaction: Transaction },
   ): Promise<LetterRow> {
-    const practice = await this.practices.get(practiceId);
+    const practice = await this.practices.get(practiceId, opts.transaction);
     const { letter } = await this.queue(
       { practiceId, referralId, kind: 'acknowledgement', dedupeKey: `acknowledgement:${referralId}`, dentist, subject: acknowledgementSubject(practice.name), at: opts.at, createdBy: opts.createdBy },
       opts.transaction,
@@ -178,6 +179,20 @@ export class LettersService {
   }
 
   /** The referral's patient, referring dentist, location and practice as they are now. */
+  /**
+   * The booking notice of a referral, at most once (dedupe key `booking_notice:<referralId>`). The schedule
+   * calls it inside the booking's own transaction, so the notice is queued if and only if the booking commits.
+   */
+  async queueBookingNotice(practiceId: number, referralId: number, caseId: number, actorId: number | null, at: Date, transaction?: Transaction): Promise<boolean> {
+    const p = await this.parties(practiceId, referralId, transaction);
+    if (!p) return false;
+    const { created } = await this.queue(
+      { practiceId, referralId, caseId, kind: 'booking_notice', dedupeKey: `booking_notice:${referralId}`, dentist: p.dentist, subject: bookingNoticeSubject(p.practice.name), at, createdBy: actorId },
+      transaction,
+    );
+    return created;
+  }
+
   async parties(practiceId: number, referralId: number, transaction?: Transaction): Promise<LetterParties | null> {
     const r = await this.referrals.findOne({
       where: { id: referralId, practiceId },
@@ -189,7 +204,7 @@ export class LettersService {
       transaction,
     });
     if (!r || !r.patient || !r.referringDentist || !r.location) return null;
-    const practice = await this.practices.get(practiceId);
+    const practice = await this.practices.get(practiceId, transaction);
     const d = r.referringDentist;
     return {
       practice: { name: practice.name, phone: practice.phone, email: practice.email },

@@ -134,7 +134,7 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
         settings,
         now,
         texts: await this.visits.countedTexts(practiceId, first.patient.id, now, { queued: true }, transaction),
-        existing: await this.visits.existingKeys(keys),
+        existing: await this.visits.existingKeys(keys, transaction),
         summary,
         transaction,
       };

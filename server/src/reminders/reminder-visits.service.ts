@@ -165,11 +165,12 @@ export class ReminderVisitsService {
   }
 
   /** Which of these dedupe keys the outbox already holds (in any status). */
-  async existingKeys(keys: string[]): Promise<Set<string>> {
+  async existingKeys(keys: string[], transaction?: Transaction): Promise<Set<string>> {
     if (!keys.length) return new Set();
     const rows = await this.sequelize.query<{ dedupe_key: string }>('SELECT dedupe_key FROM outbox_messages WHERE dedupe_key IN (:keys)', {
       replacements: { keys },
       type: QueryTypes.SELECT,
+      transaction,
     });
     return new Set(rows.map((r) => r.dedupe_key));
   }

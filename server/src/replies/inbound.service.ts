@@ -193,7 +193,7 @@ export class InboundService {
       case 'opt_in':
         return this.optIn(s, body, row, now, transaction);
       case 'help': {
-        const p = await this.context.practice(s.practiceId);
+        const p = await this.context.practice(s.practiceId, transaction);
         await this.reply(s, row, helpText(p.name, p.phone), now, transaction);
         return { effect: "Sent the practice's name, number and how to opt out", handled: true };
       }
@@ -235,16 +235,16 @@ export class InboundService {
       case 'not_confirmable':
         return { effect: `The visit on ${when} is ${r.state.replace('_', '-')}; nothing to confirm`, handled: false };
     }
-    const thanks = await this.thanks(s, v, now);
+    const thanks = await this.thanks(s, v, now, transaction);
     if (thanks) await this.reply(s, row, thanks, now, transaction);
     return { effect: `Confirmed the visit on ${when}${thanks ? '; sent the thank-you text' : ''}`, handled: true, event: r.event };
   }
 
   /** The practice's own thank-you template, when its reminder settings have one (none by default). */
-  private async thanks(s: Sender, v: VisitFacts, now: Date): Promise<string | null> {
-    const template = (await this.context.settings(s.practiceId)).confirmThanks;
+  private async thanks(s: Sender, v: VisitFacts, now: Date, transaction: Transaction): Promise<string | null> {
+    const template = (await this.context.settings(s.practiceId, transaction)).confirmThanks;
     if (!template) return null;
-    const p = await this.context.practice(s.practiceId);
+    const p = await this.context.practice(s.practiceId, transaction);
     try {
       const values = placeholderValues({ channel: 'sms', practice: p.name, location: v.locationName, start: v.start, zone: v.timeZone, confirmLink: '' });
       const r = renderTemplate(template.body, values);
@@ -256,7 +256,7 @@ export class InboundService {
   }
 
   private async reschedule(s: Sender, body: string, row: InboundMessageRow, now: Date, transaction: Transaction): Promise<Outcome> {
-    const p = await this.context.practice(s.practiceId);
+    const p = await this.context.practice(s.practiceId, transaction);
     const v = s.visit;
     if (v) {
       const when = visitWhen(v.start, v.timeZone);
@@ -324,7 +324,7 @@ export class InboundService {
     if (!hadConsent && previous?.kind === 'opt_out') {
       return { effect: `Replied ${word} again: texts were already off${pending}; no second acknowledgement`, handled: true };
     }
-    const p = await this.context.practice(s.practiceId);
+    const p = await this.context.practice(s.practiceId, transaction);
     await this.reply(s, row, optOutAck(p.name), now, transaction);
     return { effect: `Texts stopped (replied ${word})${sharedBy(locked.length)}${pending}; acknowledged once`, handled: true };
   }
@@ -342,7 +342,7 @@ export class InboundService {
       changed++;
     }
     if (!changed) return { effect: `Replied ${word}: texts were already on; no reply sent`, handled: true };
-    const p = await this.context.practice(s.practiceId);
+    const p = await this.context.practice(s.practiceId, transaction);
     await this.reply(s, row, optInAck(p.name), now, transaction);
     return { effect: `Texts on again (replied ${word})${sharedBy(changed)}; acknowledged`, handled: true };
   }
@@ -351,7 +351,7 @@ export class InboundService {
     const offer = s.offer!;
     const claim = await this.offers.claim(offer.offerId, now, transaction);
     if (claim === 'gone') {
-      await this.reply(s, row, await this.offers.goneText(s.practiceId), now, transaction);
+      await this.reply(s, row, await this.offers.goneText(s.practiceId, transaction), now, transaction);
       return { effect: 'Answered the waitlist offer, but the time had already been taken or the offer had expired; told the patient', handled: true };
     }
     return {

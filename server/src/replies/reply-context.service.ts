@@ -1,7 +1,7 @@
 import { Injectable } from '@nestjs/common';
 import { InjectModel } from '@nestjs/sequelize';
 import { formatPhone, type MessageTemplate, type QuietHours, type ReminderSettings } from '@ostium/shared';
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
 import { ReminderSettingsRow } from '../messaging/models/reminder-settings.model.js';
 import { PracticesService } from '../practices/practices.service.js';
@@ -41,8 +41,9 @@ export class ReplyContextService {
     @InjectModel(ReminderSettingsRow) private readonly settingsRows: typeof ReminderSettingsRow,
   ) {}
 
-  async practice(practiceId: number): Promise<PracticeContact> {
-    const p = await this.practices.get(practiceId);
+  /** Inside a transaction pass it: a second connection could wait on a pool that transactions like it hold. */
+  async practice(practiceId: number, transaction?: Transaction): Promise<PracticeContact> {
+    const p = await this.practices.get(practiceId, transaction);
     let phone: string | null = null;
     if (p.phone) {
       try {
@@ -54,8 +55,8 @@ export class ReplyContextService {
     return { id: p.id, name: p.name, phone };
   }
 
-  async settings(practiceId: number): Promise<ReplySettings> {
-    const row = await this.settingsRows.findByPk(practiceId);
+  async settings(practiceId: number, transaction?: Transaction): Promise<ReplySettings> {
+    const row = await this.settingsRows.findByPk(practiceId, { transaction });
     const raw = row?.settings;
     const s = (typeof raw === 'string' ? JSON.parse(raw) : raw) as Partial<ReminderSettings> | undefined;
     const positive = (v: unknown, d: number) => (typeof v === 'number' && Number.isFinite(v) && v > 0 ? v : d);

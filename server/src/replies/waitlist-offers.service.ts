@@ -274,14 +274,14 @@ export class WaitlistOffersService implements OnModuleInit {
       type: QueryTypes.SELECT,
       transaction,
     });
-    const settings = await this.context.settings(offer.practiceId);
+    const settings = await this.context.settings(offer.practiceId, transaction);
     const zone = p.time_zone ?? loc?.time_zone ?? 'UTC';
     if (!isInsideWindow(now, zone, settings.quietHours)) {
       const next = nextAllowedInstant(now, zone, settings.quietHours);
       if (next.getTime() >= slot.expiresAt.getTime()) return { action: 'skip', reason: `quiet hours in ${zone} last until after the offer expires` };
       return { action: 'defer', dueAt: next, reason: `quiet hours in ${zone} until ${settings.quietHours.start}` };
     }
-    const practice = await this.context.practice(offer.practiceId);
+    const practice = await this.context.practice(offer.practiceId, transaction);
     return { action: 'send', to: p.phone, body: waitlistOfferText(practice.name, visitWhen(slot.start, loc?.time_zone ?? zone), loc?.name ?? 'the practice') };
   }
 
@@ -342,8 +342,8 @@ export class WaitlistOffersService implements OnModuleInit {
   }
 
   /** What a patient who lost (or answered late) hears. */
-  async goneText(practiceId: number): Promise<string> {
-    return waitlistGoneText((await this.context.practice(practiceId)).name);
+  async goneText(practiceId: number, transaction?: Transaction): Promise<string> {
+    return waitlistGoneText((await this.context.practice(practiceId, transaction)).name);
   }
 
   /**

@@ -18,6 +18,7 @@ import { Sequelize } from 'sequelize-typescript';
 import { EstimatesService } from '../estimates/estimates.service.js';
 import type { Actor } from '../referrals/case-record.types.js';
 import { isOpen, STATUS_PATH } from '../referrals/referral-status.util.js';
+import { LettersService } from '../referrals/letters.service.js';
 import { ReferralsService } from '../referrals/referrals.service.js';
 import { APPOINTMENT_CHANGED, APPOINTMENTS_BOOKED, type AppointmentChangedEvent, type AppointmentsBookedEvent, type AppointmentSnapshot } from './appointment-events.js';
 import { canTransition, MOVABLE_STATES, noticeHours, RELEASED_STATES } from './appointment-state.util.js';
@@ -146,6 +147,7 @@ export class AppointmentsService {
     private readonly sequelize: Sequelize,
     @InjectModel(AppointmentRow) private readonly appointments: typeof AppointmentRow,
     private readonly referrals: ReferralsService,
+    private readonly letters: LettersService,
     private readonly estimates: EstimatesService,
     private readonly events: EventEmitter2,
   ) {}
@@ -404,6 +406,8 @@ export class AppointmentsService {
           }
           await this.insertCells(practiceId, cells, transaction);
           await this.markBooked(practiceId, c.id, c.referralId, c.referralStatus, actor, transaction);
+          // The referring dentist's notice commits with the booking (the outbox sends it), never without it.
+          if (firstBooking) await this.letters.queueBookingNotice(practiceId, c.referralId, c.id, actor.id, new Date(), transaction);
         },
       );
     } catch (e) {
