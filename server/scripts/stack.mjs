@@ -216,7 +216,7 @@ async function dev() {
 function summarise(file) {
   if (!existsSync(file)) return null;
   const r = JSON.parse(readFileSync(file, 'utf8'));
-  return { passed: r.numPassedTests, failed: r.numFailedTests, skipped: r.numPendingTests + (r.numTodoTests ?? 0) };
+  return { passed: r.numPassedTests, failed: r.numFailedTests, skipped: r.numPendingTests + (r.numTodoTests ?? 0), failedFiles: r.numFailedTestSuites ?? 0 };
 }
 
 async function test() {
@@ -233,7 +233,8 @@ async function test() {
   const args = [join(root, 'node_modules', 'vitest', 'vitest.mjs'), 'run', '--reporter=default', '--reporter=json', `--outputFile.json=${results}`, ...process.argv.slice(3)];
   const r = spawnSync(process.execPath, args, { cwd: root, stdio: 'inherit', env: { ...process.env, ...env, CHROMIUM_PATH: '/usr/bin/chromium' } });
   const s = summarise(results);
-  if (s) console.log(`\nostium: ${s.passed} passed, ${s.failed} failed, ${s.skipped} skipped`);
+  // A file can fail outside its tests (a hook such as afterAll): say so, the tests' counts alone would not.
+  if (s) console.log(`\nostium: ${s.passed} passed, ${s.failed} failed, ${s.skipped} skipped${s.failedFiles ? `; ${s.failedFiles} file(s) failed` : ''}`);
   await shutdown(r.status === 0 && s && s.failed === 0 ? 0 : 1);
 }
 

@@ -36,7 +36,7 @@ describe('health while the database goes away and comes back', () => {
   beforeAll(async () => {
     paths = mariadbPaths(dataRoot, await freePort());
     await startMariadb(paths, { fresh: true, log: () => {} });
-    const db = { host: '127.0.0.1', port: paths.port, name: 'ostium_health', user: 'ostium_health', password: 'ostium-health-test' };
+    const db = { host: '127.0.0.1', port: paths.port, name: 'ostium_health', user: 'ostium_health', password: 'ostium-health-test', poolMax: 20 };
     ensureDatabase(paths, { database: db.name, user: db.user, password: db.password, wildcard: true });
     config = testConfig({ db });
     await migrate(config);

@@ -2,7 +2,7 @@
 export interface AppConfig {
   env: string;
   port: number;
-  db: { host: string; port: number; name: string; user: string; password: string };
+  db: { host: string; port: number; name: string; user: string; password: string; poolMax: number };
   jwt: { secret: string; accessTtlSeconds: number; refreshTtlSeconds: number };
   loginRateLimit: { limit: number; ttlMs: number };
   clientDist: string | null;
@@ -46,6 +46,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
       name: env.DB_NAME ?? 'ostium',
       user: env.DB_USER ?? 'ostium',
       password: env.DB_PASSWORD ?? 'ostium-local',
+      // Connections per process; every transaction holds one for its length.
+      poolMax: num(env.DB_POOL_MAX, 20),
     },
     jwt: {
       secret,

@@ -14,7 +14,7 @@ export function sequelizeOptions(config: AppConfig, database = config.db.name): 
     database,
     timezone: '+00:00',
     logging: false,
-    pool: { max: 20, min: 0, acquire: 20_000, idle: 10_000, evict: 5_000 },
+    pool: { max: config.db.poolMax, min: 0, acquire: 20_000, idle: 10_000, evict: 5_000 },
     dialectOptions: { connectTimeout: 3_000, timezone: '+00:00' },
     define: { underscored: true, timestamps: true },
     autoLoadModels: true,

@@ -94,8 +94,8 @@ export class EstimatesService {
     private readonly users: UsersService,
   ) {}
 
-  async currentTable(practiceId: number): Promise<EstimateTable> {
-    const row = await this.tables.findOne({ where: { practiceId }, order: [['version', 'DESC']] });
+  async currentTable(practiceId: number, transaction?: Transaction): Promise<EstimateTable> {
+    const row = await this.tables.findOne({ where: { practiceId }, order: [['version', 'DESC']], transaction });
     return row ? { ...row.content, version: row.version } : { ...structuredClone(DEFAULT_ESTIMATE_TABLE) };
   }
 
@@ -213,7 +213,7 @@ export class EstimatesService {
     v: { appointmentId: number; visitDate: string; toothFdi: string; procedure: Procedure; canals: number; level: Level; operatorId: number | null; actualMinutes: number },
     transaction?: Transaction,
   ): Promise<{ id: number; estimatedMinutes: number; actualMinutes: number }> {
-    const table = await this.currentTable(practiceId);
+    const table = await this.currentTable(practiceId, transaction);
     const estimatedMinutes = this.tableMinutesAt(table, v.toothFdi, v.procedure, v.canals, v.level);
     const row = await this.visits.create(
       {

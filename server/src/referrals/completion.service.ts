@@ -67,10 +67,10 @@ export class CompletionService {
   }
 
   /** The recall months the form starts with: the stored estimate's, else the current table's for the procedure. */
-  private async defaultRecall(c: CaseRecord): Promise<number[]> {
+  private async defaultRecall(c: CaseRecord, transaction?: Transaction): Promise<number[]> {
     const fromEstimate = (c.estimate as EstimateResult | null)?.recallMonths;
     if (Array.isArray(fromEstimate)) return [...fromEstimate];
-    const table = await this.estimates.currentTable(c.practiceId);
+    const table = await this.estimates.currentTable(c.practiceId, transaction);
     return table.recall.procedures.includes(c.procedure) ? [...table.recall.months] : [];
   }
 
@@ -148,7 +148,7 @@ export class CompletionService {
         const row = existing ?? this.completions.build({ practiceId, caseId, referralId: c.referralId });
         row.set({
           findings: dto.findings.trim(),
-          recallMonths: [...new Set(dto.recallPlan ?? (await this.defaultRecall(c)))].sort((a, b) => a - b),
+          recallMonths: [...new Set(dto.recallPlan ?? (await this.defaultRecall(c, t)))].sort((a, b) => a - b),
           treatmentEndedOn: ready.treatmentEndedOn ?? existing!.treatmentEndedOn,
           sendReport,
           completedBy: user.id,

@@ -300,7 +300,7 @@ export class ReminderPlannerService implements OnApplicationBootstrap, OnModuleD
       }
       // Rules the visit has no row for yet (added since it was booked).
       const keys = before(settings.rules).map((r) => apptKey(v.id, r.channel, r.id));
-      const ctx: PlanContext = { settings, now, texts, existing: await this.visits.existingKeys(keys), summary, transaction };
+      const ctx: PlanContext = { settings, now, texts, existing: await this.visits.existingKeys(keys, transaction), summary, transaction };
       for (const rule of before(settings.rules)) await this.planBeforeVisit(rule, v, ctx);
     });
     return summary;

@@ -94,12 +94,12 @@ export class DeskTasksService {
   }
 
   /** Tasks about an unmatched sender: those made for one of its inbound texts. */
-  async listForAddress(practiceId: number, address: string): Promise<DeskTask[]> {
+  async listForAddress(practiceId: number, address: string, transaction?: Transaction): Promise<DeskTask[]> {
     const rows = await this.sequelize.query<TaskListRow>(
       `${TASK_SQL} JOIN inbound_messages m ON m.id = t.inbound_message_id
         WHERE t.practice_id = :practiceId AND t.patient_id IS NULL AND m.patient_id IS NULL AND m.from_address = :address
         ORDER BY t.status = 'open' DESC, t.created_at DESC, t.id DESC`,
-      { replacements: { practiceId, address }, type: QueryTypes.SELECT },
+      { replacements: { practiceId, address }, type: QueryTypes.SELECT, transaction },
     );
     return rows.map(mapTaskRow);
   }

@@ -379,7 +379,7 @@ export class InboundService {
 
   /** A number no patient gave: kept in the inbox with one open task per sender; nothing else changes. */
   private async unmatched(practiceId: number, address: string, body: string, row: InboundMessageRow, transaction: Transaction): Promise<Outcome> {
-    const open = await this.tasks.listForAddress(practiceId, address);
+    const open = await this.tasks.listForAddress(practiceId, address, transaction);
     if (!open.some((t) => t.status === 'open' && t.kind === 'unmatched_reply')) {
       await this.tasks.create(
         { practiceId, kind: 'unmatched_reply', inboundMessageId: row.id, detail: `A text from ${display(address)} matches no patient: "${quote(body)}"` },

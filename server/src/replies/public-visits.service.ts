@@ -2,7 +2,7 @@ import { ConflictException, GoneException, Inject, Injectable, NotFoundException
 import { InjectModel } from '@nestjs/sequelize';
 import type { PublicVisitAction, PublicVisitView } from '@ostium/shared';
 import { DateTime } from 'luxon';
-import { QueryTypes } from 'sequelize';
+import { QueryTypes, type Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
 import { APP_CONFIG, type AppConfig } from '../config/configuration.js';
 import { MessagingClock } from '../messaging/messaging-clock.service.js';
@@ -47,10 +47,10 @@ export class PublicVisitsService {
     return v;
   }
 
-  private async state(v: VisitFacts, now: Date): Promise<PublicVisitView['state']> {
+  private async state(v: VisitFacts, now: Date, transaction?: Transaction): Promise<PublicVisitView['state']> {
     if (v.state === 'cancelled' || v.state === 'no_show') return 'cancelled';
     if (v.start.getTime() <= now.getTime() || !['booked', 'confirmed'].includes(v.state)) return 'past';
-    if (await this.tasks.openFor(v.practiceId, 'reschedule_request', v.id)) return 'reschedule_requested';
+    if (await this.tasks.openFor(v.practiceId, 'reschedule_request', v.id, transaction)) return 'reschedule_requested';
     return v.state === 'confirmed' ? 'confirmed' : 'booked';
   }
 
@@ -81,7 +81,7 @@ export class PublicVisitsService {
     await this.sequelize.transaction(async (transaction) => {
       // One visit's actions one at a time: two clicks cannot make two tasks or two confirmations.
       await this.sequelize.query('SELECT id FROM appointments WHERE id = :id FOR UPDATE', { replacements: { id: v.id }, type: QueryTypes.SELECT, transaction });
-      const state = await this.state(v, now);
+      const state = await this.state(v, now, transaction);
       if (state === 'cancelled') throw new ConflictException(`This visit was cancelled. To book a new time, ${call}.`);
       if (state === 'past') throw new ConflictException(`This visit is in the past. For anything else, ${call}.`);
       if (state === 'reschedule_requested') throw new ConflictException(`You have asked for another time; ${practice.name} will call you.`);

@@ -11,6 +11,9 @@ import { createApp } from '../../src/app.factory.js';
 import { loadConfig, type AppConfig } from '../../src/config/configuration.js';
 import { createMigrator } from '../../src/database/migrator.js';
 import { SeedsService } from '../../src/seeds/seeds.service.js';
+import { installTransactionGuard, takeTransactionLeaks } from './transaction-guard.js';
+
+installTransactionGuard();
 
 const repoRoot = join(dirname(fileURLToPath(import.meta.url)), '..', '..', '..');
 
@@ -124,6 +127,8 @@ export async function createTestApp(overrides: TestConfigOverrides = {}, { seed 
     close: async () => {
       await app.close();
       await dropDatabase(config, dbName);
+      const leaks = takeTransactionLeaks();
+      if (leaks.length) throw new Error(`queries inside a transaction ran without it (each needs a second connection):\n${leaks.join('\n')}`);
     },
   };
 }
