@@ -1,4 +1,4 @@
-import { Card, Text, Title } from '@mantine/core';
+import { Alert, Card, Text, Title } from '@mantine/core';
 import type { ReactNode } from 'react';
 
 /** One titled card of a settings page, with an optional hint under the title and an error under the body. */
@@ -20,5 +20,21 @@ export function SettingsSection({ title, hint, error, children }: { title: strin
         </Text>
       )}
     </Card>
+  );
+}
+
+/** A settings page's refused save: the server's message, and the field errors no section shows. */
+export function NotSavedAlert({ message, details }: { message: string; details: string[] }) {
+  return (
+    <Alert color="red" variant="light" mb="md" title="Not saved" role="alert">
+      {message}
+      {details.length > 0 && (
+        <ul style={{ margin: '4px 0 0', paddingLeft: 18 }}>
+          {details.map((m) => (
+            <li key={m}>{m}</li>
+          ))}
+        </ul>
+      )}
+    </Alert>
   );
 }

@@ -131,3 +131,21 @@ export async function apiBlob(path: string): Promise<Blob> {
   if (!res.ok) throw await toError(res);
   return res.blob();
 }
+
+/**
+ * Opens a protected file in a new tab. The tab is opened before the download so the browser counts it as
+ * the user's click and does not block it as a pop-up.
+ */
+export async function openBlobInNewTab(path: string): Promise<void> {
+  const tab = window.open('', '_blank');
+  try {
+    const url = URL.createObjectURL(await apiBlob(path));
+    if (tab) tab.location.href = url;
+    else window.location.assign(url);
+    // The tab has loaded the blob by then; keeping it longer would hold the file in memory.
+    setTimeout(() => URL.revokeObjectURL(url), 60_000);
+  } catch (e) {
+    tab?.close();
+    throw e;
+  }
+}

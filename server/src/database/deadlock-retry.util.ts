@@ -4,7 +4,10 @@ export const ER_LOCK_DEADLOCK = 1213;
 export const ER_LOCK_WAIT_TIMEOUT = 1205;
 
 /** The MariaDB error number behind a Sequelize error, if any. */
-export const sqlErrno = (e: unknown): number | undefined => (e as { parent?: { errno?: number } })?.parent?.errno;
+export const sqlErrno = (e: unknown): number | undefined => {
+  const x = e as { parent?: { errno?: number }; original?: { errno?: number }; errno?: number } | null | undefined;
+  return x?.parent?.errno ?? x?.original?.errno ?? x?.errno;
+};
 
 export const isDeadlock = (e: unknown) => sqlErrno(e) === ER_LOCK_DEADLOCK;
 

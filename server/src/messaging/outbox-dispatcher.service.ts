@@ -4,6 +4,7 @@ import { SchedulerRegistry } from '@nestjs/schedule';
 import { randomBytes } from 'node:crypto';
 import { QueryTypes, Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
+import { ER_LOCK_DEADLOCK, ER_LOCK_WAIT_TIMEOUT, sqlErrno } from '../database/deadlock-retry.util.js';
 import { APP_CONFIG, type AppConfig } from '../config/configuration.js';
 import type { ComposeDecision } from './composer.types.js';
 import { EmailSenderService } from './email-sender.service.js';
@@ -23,8 +24,6 @@ export const CLAIM_SQL = `SELECT id FROM outbox_messages
 export const STALE_SQL = `SELECT id FROM outbox_messages
   WHERE status = 'sending' AND claimed_until < :now ORDER BY claimed_until, id LIMIT :limit FOR UPDATE SKIP LOCKED`;
 
-const ER_LOCK_DEADLOCK = 1213;
-const ER_LOCK_WAIT_TIMEOUT = 1205;
 /** Sends in flight at once per worker. */
 const SEND_CONCURRENCY = 8;
 /** The provider's clock and ours may differ; look this far before the row fell due for an interrupted text. */
@@ -159,7 +158,7 @@ export class OutboxDispatcherService implements OnApplicationBootstrap, OnModule
       try {
         return await this.claimOnce(sql, now);
       } catch (e) {
-        const errno = (e as { parent?: { errno?: number } }).parent?.errno;
+        const errno = sqlErrno(e);
         if ((errno === ER_LOCK_DEADLOCK || errno === ER_LOCK_WAIT_TIMEOUT) && attempt < 3) continue;
         throw e;
       }

@@ -4,13 +4,13 @@ import { InjectModel } from '@nestjs/sequelize';
 import { MESSAGE_CHANNELS, OUTBOX_PURPOSES, type OutboxMessage, type OutboxPurpose, type OutboxStatus } from '@ostium/shared';
 import { Op, QueryTypes, UniqueConstraintError, type Transaction, type WhereOptions } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
+import { ER_LOCK_DEADLOCK, sqlErrno } from '../database/deadlock-retry.util.js';
 import { assertZone, DEFAULT_QUIET_WINDOW, isInsideWindow, nextAllowedInstant, parseWindow, type QuietWindow } from '../reminders/rules/index.js';
 import type { ComposeDecision, EnqueueInput, MessageComposer } from './composer.types.js';
 import { OUTBOX_FAILED, type OutboxFailedEvent } from './messaging-events.js';
 import { OutboxMessageRow } from './models/outbox-message.model.js';
 import { providerCodeInWords } from './sms-sender.service.js';
 
-const ER_LOCK_DEADLOCK = 1213;
 /** Where neither the patient nor the practice names a zone (the project's practices are in New York). */
 const FALLBACK_ZONE = 'America/New_York';
 const LIST_LIMIT = 500;
@@ -156,8 +156,7 @@ export class OutboxService {
           if (row) return { row, created: false };
         }
         // Concurrent inserts of one key can deadlock; outside a caller's transaction simply try again.
-        const errno = (e as { parent?: { errno?: number } }).parent?.errno;
-        if (errno === ER_LOCK_DEADLOCK && !transaction && attempt < 3) continue;
+        if (sqlErrno(e) === ER_LOCK_DEADLOCK && !transaction && attempt < 3) continue;
         throw e;
       }
     }

@@ -2,6 +2,7 @@
 // chair, location, local day, ISO week and weekday × hour, and actual use over the days whose visits are
 // done. Pure: the service reads the rows, this adds them up.
 import type { AppointmentState, ChairUseReport, UseFigure } from '@ostium/shared';
+import { RELEASED_STATES } from '../scheduling/appointment-state.util.js';
 import { normalizeIntervals } from '../scheduling/time-finder/interval.util.js';
 import type { Interval } from '../scheduling/time-finder/time-finder.types.js';
 import { HEATMAP_FIRST_HOUR, HEATMAP_LAST_HOUR } from './report-constants.js';
@@ -22,8 +23,6 @@ import {
   type ReportLocation,
 } from './report-time.util.js';
 
-/** States whose visit no longer holds its chair (as the booking guard releases them). */
-export const RELEASED: readonly AppointmentState[] = ['cancelled', 'no_show'];
 
 export interface ReportChair {
   id: number;
@@ -99,7 +98,7 @@ export function chairUse(input: ChairUseInput): ChairUseFigures {
   const locations = new Map(input.locations.map((l) => [l.id, l]));
   const byChairBookings = new Map<number, ChairBooking[]>();
   for (const b of input.bookings) {
-    if (RELEASED.includes(b.state)) continue;
+    if (RELEASED_STATES.includes(b.state)) continue;
     (byChairBookings.get(b.chairId) ?? byChairBookings.set(b.chairId, []).get(b.chairId)!).push(b);
   }
 

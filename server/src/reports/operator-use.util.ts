@@ -4,7 +4,7 @@
 import type { AppointmentState, OperatorUseReport } from '@ostium/shared';
 import { normalizeIntervals } from '../scheduling/time-finder/interval.util.js';
 import type { Interval } from '../scheduling/time-finder/time-finder.types.js';
-import { RELEASED } from './chair-use.util.js';
+import { RELEASED_STATES } from '../scheduling/appointment-state.util.js';
 import {
   clockFor,
   closedDays,
@@ -70,7 +70,7 @@ export function operatorDays(input: OperatorUseInput, span: DaySpan = daySpan(in
   const clocks = locationClocks(input.locations, span);
   const byKey = new Map<string, OperatorBooking[]>();
   for (const b of input.bookings) {
-    if (RELEASED.includes(b.state)) continue;
+    if (RELEASED_STATES.includes(b.state)) continue;
     const k = `${b.operatorId}|${b.locationId}`;
     (byKey.get(k) ?? byKey.set(k, []).get(k)!).push(b);
   }

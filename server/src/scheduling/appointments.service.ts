@@ -15,6 +15,7 @@ import { DateTime } from 'luxon';
 import { randomUUID } from 'node:crypto';
 import { QueryTypes, type Transaction } from 'sequelize';
 import { Sequelize } from 'sequelize-typescript';
+import { ER_LOCK_DEADLOCK, ER_LOCK_WAIT_TIMEOUT, sqlErrno } from '../database/deadlock-retry.util.js';
 import { EstimatesService } from '../estimates/estimates.service.js';
 import type { Actor } from '../referrals/case-record.types.js';
 import { isOpen, STATUS_PATH } from '../referrals/referral-status.util.js';
@@ -29,8 +30,6 @@ import { DEFAULT_TURNOVER_MINUTES } from './time-finder/time-finder.util.js';
 
 const MIN = 60_000;
 const ER_DUP_ENTRY = 1062;
-const ER_LOCK_DEADLOCK = 1213; // also what a Galera certification failure looks like
-const ER_LOCK_WAIT_TIMEOUT = 1205;
 
 const bad = (field: string, message: string) => new BadRequestException({ message, errors: [{ field, message }] });
 
@@ -127,11 +126,6 @@ const LIST_SQL = `SELECT a.id, a.version, a.series_id, a.visit_index, a.case_id,
   JOIN cases c ON c.id = a.case_id
   JOIN referrals r ON r.id = a.referral_id
   JOIN patients p ON p.id = r.patient_id`;
-
-const errno = (e: unknown): number | undefined => {
-  const x = e as { parent?: { errno?: number }; original?: { errno?: number }; errno?: number };
-  return x?.parent?.errno ?? x?.original?.errno ?? x?.errno;
-};
 
 const cellKey = (kind: ResourceKind, id: number, t: number) => `${kind}|${id}|${t}`;
 const sqlTime = (t: number) => new Date(t).toISOString().slice(0, 19).replace('T', ' ');
@@ -247,7 +241,7 @@ export class AppointmentsService {
         transaction,
       });
     } catch (e) {
-      if (errno(e) === ER_DUP_ENTRY) throw new CellTaken();
+      if (sqlErrno(e) === ER_DUP_ENTRY) throw new CellTaken();
       throw e;
     }
   }
@@ -265,7 +259,7 @@ export class AppointmentsService {
       try {
         return await this.sequelize.transaction(work);
       } catch (e) {
-        const code = errno(e);
+        const code = sqlErrno(e);
         if (e instanceof CellTaken || ((code === ER_LOCK_DEADLOCK || code === ER_LOCK_WAIT_TIMEOUT) && attempt >= 1)) {
           const conflicts = await this.conflictsFor(visits());
           throw new BookingConflictException(conflictMessage(conflicts, 'was just booked by someone else'), conflicts);
@@ -373,7 +367,7 @@ export class AppointmentsService {
                 transaction,
               });
             } catch (e) {
-              if (errno(e) === ER_DUP_ENTRY) throw new KeyUsed();
+              if (sqlErrno(e) === ER_DUP_ENTRY) throw new KeyUsed();
               throw e;
             }
           }

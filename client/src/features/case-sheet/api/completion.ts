@@ -1,6 +1,6 @@
 import type { CaseCompletionView, CompleteCaseRequest } from '@ostium/shared';
 import { queryOptions, useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
-import { api, apiBlob } from '../../../lib/api-client';
+import { api, openBlobInNewTab } from '../../../lib/api-client';
 import { caseKeys } from './case-sheet';
 
 export const completionKeys = {
@@ -32,16 +32,5 @@ export function useCompleteCase(caseId: number) {
 
 export const letterPdfPath = (letterId: number) => `/letters/${letterId}/pdf`;
 
-/** Opens the report's PDF in a new tab; the tab opens first so the browser treats it as the user's click. */
-export async function openLetterPdf(letterId: number): Promise<void> {
-  const tab = window.open('', '_blank');
-  try {
-    const url = URL.createObjectURL(await apiBlob(letterPdfPath(letterId)));
-    if (tab) tab.location.href = url;
-    else window.location.assign(url);
-    setTimeout(() => URL.revokeObjectURL(url), 60_000);
-  } catch (e) {
-    tab?.close();
-    throw e;
-  }
-}
+/** Opens the report's PDF in a new tab. */
+export const openLetterPdf = (letterId: number): Promise<void> => openBlobInNewTab(letterPdfPath(letterId));

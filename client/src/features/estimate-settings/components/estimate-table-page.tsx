@@ -6,7 +6,7 @@ import { IconDeviceFloppy } from '@tabler/icons-react';
 import { useQuery } from '@tanstack/react-query';
 import { useState } from 'react';
 import { PageHeader } from '../../../components/page-header';
-import { SettingsSection as Section } from '../../../components/settings-section';
+import { NotSavedAlert, SettingsSection as Section } from '../../../components/settings-section';
 import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
 import { usersQuery } from '../../users/api/users';
@@ -119,18 +119,7 @@ function TableEditor({ info }: { info: EstimateTableInfo }) {
           </Button>
         </Group>
       </Group>
-      {saveError && (
-        <Alert color="red" variant="light" mb="md" title="Not saved" role="alert">
-          {saveError.message}
-          {otherErrors.length > 0 && (
-            <ul style={{ margin: '4px 0 0', paddingLeft: 18 }}>
-              {otherErrors.map((m) => (
-                <li key={m}>{m}</li>
-              ))}
-            </ul>
-          )}
-        </Alert>
-      )}
+      {saveError && <NotSavedAlert message={saveError.message} details={otherErrors} />}
       {Object.keys(form.errors).length > 0 && !saveError && (
         <Alert color="red" variant="light" mb="md" role="alert">
           Some numbers need a look; they are marked below.

@@ -1,6 +1,6 @@
 import type { AttachmentSummary } from '@ostium/shared';
 import { useEffect, useState } from 'react';
-import { api, apiBlob } from '../../../lib/api-client';
+import { api, apiBlob, openBlobInNewTab } from '../../../lib/api-client';
 
 export type AttachmentKind = AttachmentSummary['kind'];
 
@@ -36,21 +36,5 @@ export function useAttachmentUrl(id: number, enabled = true) {
   return state;
 }
 
-/**
- * Opens an attachment in a new tab. The tab is opened before the download so the browser counts it as
- * the user's click and does not block it as a pop-up.
- */
-export async function openAttachment(id: number): Promise<void> {
-  const tab = window.open('', '_blank');
-  try {
-    const blob = await apiBlob(attachmentContentPath(id));
-    const url = URL.createObjectURL(blob);
-    if (tab) tab.location.href = url;
-    else window.location.assign(url);
-    // The tab has loaded the blob by then; keeping it longer would hold the file in memory.
-    setTimeout(() => URL.revokeObjectURL(url), 60_000);
-  } catch (e) {
-    tab?.close();
-    throw e;
-  }
-}
+/** Opens an attachment in a new tab. */
+export const openAttachment = (id: number): Promise<void> => openBlobInNewTab(attachmentContentPath(id));

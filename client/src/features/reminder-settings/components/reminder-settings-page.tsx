@@ -7,7 +7,7 @@ import { IconDeviceFloppy, IconRefresh, IconShieldLock } from '@tabler/icons-rea
 import { DateTime } from 'luxon';
 import { useState } from 'react';
 import { PageHeader } from '../../../components/page-header';
-import { SettingsSection as Section } from '../../../components/settings-section';
+import { NotSavedAlert, SettingsSection as Section } from '../../../components/settings-section';
 import { QueryState } from '../../../components/query-state';
 import { ApiError } from '../../../lib/api-client';
 import { useLocations } from '../../practice/api/practice';
@@ -89,18 +89,7 @@ function SettingsEditor({ data, onReload }: { data: ReminderSettingsResponse; on
           </Stack>
         </Alert>
       ) : (
-        saveError && (
-          <Alert color="red" variant="light" mb="md" title="Not saved" role="alert">
-            {saveError.message}
-            {banner.length > 0 && (
-              <ul style={{ margin: '4px 0 0', paddingLeft: 18 }}>
-                {banner.map((m) => (
-                  <li key={m}>{m}</li>
-                ))}
-              </ul>
-            )}
-          </Alert>
-        )
+        saveError && <NotSavedAlert message={saveError.message} details={banner} />
       )}
       {!saveError && Object.keys(form.errors).length > 0 && (
         <Alert color="red" variant="light" mb="md" role="alert">
